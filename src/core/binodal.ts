@@ -1,0 +1,219 @@
+import { curvatureMap } from './curvature';
+import { fail } from './errors';
+import type { Isotherm, Point } from './model';
+import { muA, pointAt } from './model';
+
+/** One miscibility gap at a temperature: the two coexisting compositions and their common tangent. */
+export interface Gap {
+  /** A-rich boundary x' (lower mole fraction of B). */
+  low: Point;
+  /** B-rich boundary x''. */
+  high: Point;
+  /** Slope of the common tangent, g'(x') = g'(x''), J/mol. */
+  slope: number;
+}
+
+/** Everything known about one temperature: gaps and unstable intervals, both numbered from low x. */
+export interface PhaseMap {
+  T: number;
+  gaps: Gap[];
+  /** Spinodal points; pairs [2i, 2i+1] bound the i-th unstable interval. */
+  spinodal: Point[];
+}
+
+/**
+ * A convex stretch of g between unstable intervals, [a, b] in u = ln(x / y). On it g' is increasing,
+ * so for each tangent slope m in (g'(a), g'(b)) there is exactly one point with g' = m.
+ */
+interface Branch {
+  a: number;
+  b: number;
+  /** g' at a and b (-Infinity and +Infinity at the dilute ends). */
+  mA: number;
+  mB: number;
+  /** Last point solved on this branch: the starting guess of the next solve. */
+  guess: number;
+}
+
+/**
+ * Every miscibility gap at one temperature.
+ *
+ * The gaps are where the lower convex envelope of g leaves the curve. For a tangent slope m the
+ * envelope touches g where h(x) = g(x) - m x is smallest; the candidates are the points with
+ * g'(x) = m on the convex branches, one per branch, with h = mu_A there. As m rises, the touching
+ * point moves to higher x; it jumps from branch j to branch k (a gap) at the slope where
+ *   F(m) = mu_A(x_j(m)) - mu_A(x_k(m)) = 0,  dF/dm = x_k - x_j > 0,
+ * i.e. mu_A and mu_B (= mu_A + m) are equal in both phases: the common tangent. F is monotone,
+ * so each jump is a bracketed one-dimensional root. Sweeping m from -infinity finds every gap,
+ * including several at one temperature, and never returns a tangent that cuts g elsewhere.
+ */
+export function phaseMap(iso: Isotherm, hint?: PhaseMap): PhaseMap {
+  const { spinodal } = curvatureMap(iso, false, hint?.spinodal);
+  const gaps: Gap[] = [];
+  const branches = spinodal.length > 0 ? convexBranches(iso, spinodal) : [];
+  if (branches.length > 1) {
+    // A nearby temperature with the same structure gives the starting points of every solve.
+    const warm = hint && hint.spinodal.length === spinodal.length && hint.gaps.length > 0 ? hint : undefined;
+    if (warm?.gaps.length === 1 && branches.length === 2 && spinodal.length === 2) {
+      const gap = tangentNewton(iso, warm.gaps[0], spinodal[0].u, spinodal[1].u);
+      if (gap) return { T: iso.T, gaps: [gap], spinodal };
+      branches[0].guess = warm.gaps[0].low.u;
+      branches[1].guess = warm.gaps[0].high.u;
+    }
+    let active = 0;
+    let mFrom = -Infinity;
+    while (active < branches.length - 1) {
+      let best: { m: number; k: number } | undefined;
+      for (let k = active + 1; k < branches.length; k++) {
+        // With two branches only, the envelope must pass from one to the other: no need to test.
+        const sure = branches.length === 2;
+        const m = crossing(iso, branches[active], branches[k], mFrom, sure, warm?.gaps[gaps.length]?.slope);
+        if (m !== undefined && (best === undefined || m < best.m)) best = { m, k };
+      }
+      if (best === undefined) fail('convergence', `the common-tangent sweep lost the envelope at T = ${iso.T} K`);
+      const low = pointAt(solveSlope(iso, branches[active], best.m));
+      const high = pointAt(solveSlope(iso, branches[best.k], best.m));
+      gaps.push({ low, high, slope: best.m });
+      active = best.k;
+      mFrom = best.m;
+    }
+  }
+  return { T: iso.T, gaps, spinodal };
+}
+
+/**
+ * Fast path for one gap between two convex branches, from the gap of a nearby temperature:
+ * Newton on the common-tangent equations in (u', u'') jointly,
+ *   G1 = g'(x') - g'(x'') = 0,  G2 = mu_A(x') - mu_A(x'') = 0,
+ * with d g'/du = c = x y g'' and d mu_A/du = -x c. With two branches the tangent between them is
+ * unique (F above is monotone), so a converged answer with x' left of the spinodal interval
+ * [s1, s2] and x'' right of it is the gap. Returns undefined to fall back to the sweep.
+ */
+function tangentNewton(iso: Isotherm, start: Gap, s1: number, s2: number): Gap | undefined {
+  let u1 = start.low.u, u2 = start.high.u;
+  for (let iter = 0; iter < 8; iter++) {
+    if (!(u1 < s1 && u2 > s2)) return undefined;
+    const p1 = pointAt(u1), p2 = pointAt(u2);
+    const d1 = iso.dg(p1.x, p1.y), d2 = iso.dg(p2.x, p2.y);
+    const G1 = d1 - d2;
+    const G2 = iso.g(p1.x, p1.y) - p1.x * d1 - (iso.g(p2.x, p2.y) - p2.x * d2);
+    const c1 = p1.x * p1.y * iso.d2g(p1.x, p1.y), c2 = p2.x * p2.y * iso.d2g(p2.x, p2.y);
+    // c1 du1 - c2 du2 = -G1;  -x1 c1 du1 + x2 c2 du2 = -G2
+    const b = -(G2 + p1.x * G1) / (p2.x - p1.x);
+    const a = b - G1;
+    const du1 = a / c1, du2 = b / c2;
+    if (!Number.isFinite(du1) || !Number.isFinite(du2)) return undefined;
+    u1 += du1;
+    u2 += du2;
+    if (Math.abs(du1) <= 4e-16 * Math.max(1, Math.abs(u1)) && Math.abs(du2) <= 4e-16 * Math.max(1, Math.abs(u2))) {
+      if (!(u1 < s1 && u2 > s2)) return undefined;
+      const low = pointAt(u1), high = pointAt(u2);
+      return { low, high, slope: iso.dg(low.x, low.y) };
+    }
+  }
+  return undefined;
+}
+
+function convexBranches(iso: Isotherm, spinodal: Point[]): Branch[] {
+  const slopeAt = (p: Point) => iso.dg(p.x, p.y);
+  const branches: Branch[] = [];
+  let start: Point | undefined; // left end of the branch being built (undefined: the dilute A end)
+  for (let i = 0; i < spinodal.length; i += 2) {
+    const a = spinodal[i], b = spinodal[i + 1];
+    // An unstable interval across which g' does not fall measurably is a critical point met
+    // exactly (zero width): it opens no gap, so the branches on both sides are one.
+    if (!(slopeAt(a) > slopeAt(b))) continue;
+    branches.push(branch(start, a));
+    start = b;
+  }
+  branches.push(branch(start, undefined));
+  return branches;
+
+  function branch(a: Point | undefined, b: Point | undefined): Branch {
+    const ua = a ? a.u : -Infinity, ub = b ? b.u : Infinity;
+    const guess = a && b ? 0.5 * (ua + ub) : a ? ua + 1 : b ? ub - 1 : 0;
+    return { a: ua, b: ub, mA: a ? slopeAt(a) : -Infinity, mB: b ? slopeAt(b) : Infinity, guess };
+  }
+}
+
+/** mu_A at the point of branch `br` where g' = m (the height of the tangent of slope m at x = 0). */
+function tangentHeight(iso: Isotherm, br: Branch, m: number): { h: number; x: number } {
+  const p = pointAt(solveSlope(iso, br, m));
+  return { h: muA(iso, p.x, p.y), x: p.x };
+}
+
+/**
+ * The slope m > mFrom at which the envelope passes from branch j to branch k, if it does within
+ * the slopes both branches can take (`sure`: it must). Safeguarded Newton on F(m) with
+ * dF/dm = x_k - x_j, started at `m0` when given.
+ */
+function crossing(iso: Isotherm, j: Branch, k: Branch, mFrom: number, sure: boolean, m0?: number): number | undefined {
+  let lo = Math.max(j.mA, k.mA, mFrom);
+  let hi = Math.min(j.mB, k.mB);
+  if (!(lo < hi)) return undefined;
+  const F = (m: number) => {
+    const pj = tangentHeight(iso, j, m), pk = tangentHeight(iso, k, m);
+    return { F: pj.h - pk.h, dF: pk.x - pj.x };
+  };
+  let m = m0 !== undefined && m0 > lo && m0 < hi ? m0 : 0.5 * (lo + hi);
+  if (!sure) {
+    if (F(hi).F < 0) return undefined; // branch j stays below branch k over the whole overlap
+    const atLo = F(lo);
+    if (atLo.F >= 0) return lo;
+    if (m0 === undefined) {
+      m = lo - atLo.F / atLo.dF;
+      if (!(m > lo && m < hi)) m = 0.5 * (lo + hi);
+    }
+  }
+  const lo0 = lo, hi0 = hi;
+  const scale = iso.RT + Math.abs(lo) + Math.abs(hi);
+  for (let iter = 0; iter < 200; iter++) {
+    const { F: f, dF } = F(m);
+    if (f === 0) return m;
+    if (f < 0) lo = m; else hi = m;
+    let next = m - f / dF;
+    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
+    if (Math.abs(next - m) <= 1e-15 * scale || hi - lo <= 4e-16 * scale) {
+      // Pinned against an end of the overlap: there was no sign change, so no tangent.
+      if (next - lo0 <= 1e-12 * scale || hi0 - next <= 1e-12 * scale) {
+        return fail('convergence', `no common tangent between the convex stretches at T = ${iso.T} K`);
+      }
+      return next;
+    }
+    m = next;
+  }
+  return fail('convergence', `the common tangent did not converge at T = ${iso.T} K`);
+}
+
+/**
+ * The u on branch `br` where g'(u) = m: g' is increasing there (d g'/du = x y g'' >= 0).
+ * Safeguarded Newton in u, with the bracket widened towards a dilute end when the branch is open.
+ */
+export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
+  if (m >= br.mB) return br.b;
+  if (m <= br.mA) return br.a;
+  let lo = br.a, hi = br.b;
+  let u = Math.min(Math.max(br.guess, lo), hi);
+  if (!Number.isFinite(u)) u = 0;
+  for (let iter = 0; iter < 300; iter++) {
+    const p = pointAt(u);
+    const f = iso.dg(p.x, p.y) - m;
+    if (f === 0) { br.guess = u; return u; }
+    if (f < 0) lo = u; else hi = u;
+    const slope = p.x * p.y * iso.d2g(p.x, p.y);
+    let next = u - f / slope;
+    // Towards an open (dilute) end, at most double the distance from the other end of the bracket:
+    // a step from near a spinodal point (g'' ~ 0) could otherwise shoot far past the root.
+    if (lo === -Infinity) next = Math.max(next, u - Math.max(1, 2 * (hi - u)));
+    if (hi === Infinity) next = Math.min(next, u + Math.max(1, 2 * (u - lo)));
+    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
+    if (next < -740 || next > 740) {
+      if (u === -740 || u === 740) fail('range', `a gap boundary lies closer than 1e-300 to a pure component at T = ${iso.T} K`);
+      next = next < 0 ? -740 : 740;
+    }
+    if (Math.abs(next - u) <= 2e-16 * Math.max(1, Math.abs(u))) { u = next; br.guess = u; return u; }
+    u = next;
+  }
+  if (hi - lo <= 1e-13 * Math.max(1, Math.abs(u))) { br.guess = u; return u; }
+  return fail('convergence', `a point of equal slope did not converge at T = ${iso.T} K`);
+}

@@ -1,0 +1,147 @@
+import { phaseMap } from './binodal';
+import { T_SEARCH_MAX, T_SEARCH_MIN } from './constants';
+import { curvatureMap, curvatureSlope, curvature } from './curvature';
+import { fail } from './errors';
+import type { BinaryModel, Isotherm } from './model';
+import { pointAt } from './model';
+import { brentMin, brentRoot } from './roots';
+
+/** A critical (consolute) point: g'' = g''' = 0 where a gap closes. */
+export interface CriticalPoint {
+  T: number;
+  x: number;
+  /** 'upper': the gap exists just below T; 'lower': just above. */
+  kind: 'upper' | 'lower';
+}
+
+/** Temperatures sampled between 1 K and 20000 K, evenly in ln T (steps of 3.4 %). */
+const SAMPLES = 300;
+
+/** A local minimum of q = x y g''/RT followed from one sampled temperature to the next. */
+interface Track {
+  u: number;
+  q: number;
+}
+
+/**
+ * Every critical point between 1 K and 20000 K, highest temperature first.
+ *
+ * At a critical point a local minimum of the scaled curvature q(u) = x y g''/RT passes through
+ * zero (then g'' = 0 and dq/du = 0, i.e. g''' = 0). The local minima of q are followed over
+ * temperatures sampled evenly in ln T; where one changes sign, the temperature at which it is
+ * zero is found by Brent's method, minimising q near the followed position at each trial T.
+ * A minimum that dips below zero and comes back between samples (a small closed loop) is caught
+ * by minimising its depth over T where the sampled depths have a local minimum close to zero.
+ * A point found this way is kept only if the gap really closes there (its width shrinks towards
+ * it like a square root), which excludes metastable points inside a wider stable gap.
+ */
+export function criticalPoints(model: BinaryModel, Tmin = T_SEARCH_MIN, Tmax = T_SEARCH_MAX): CriticalPoint[] {
+  const Ts: number[] = [];
+  for (let i = 0; i < SAMPLES; i++) Ts.push(Tmin * Math.pow(Tmax / Tmin, i / (SAMPLES - 1)));
+  const minimaAt = Ts.map((T) => {
+    try {
+      return curvatureMap(model.at(T), true).minima.map((m) => ({ u: m.point.u, q: m.q }));
+    } catch {
+      return []; // g'' cannot be followed at this temperature (parameters far too large for it)
+    }
+  });
+
+  const found: Array<{ T: number; u: number; kind: 'upper' | 'lower' }> = [];
+  const depth = (T: number, u: number) => localMinimum(model.at(T), u);
+  const rootBetween = (Ta: number, Tb: number, qa: number, qb: number, u: number) => {
+    let uNow = u;
+    const f = (T: number) => {
+      const m = depth(T, uNow);
+      uNow = m.u;
+      return m.q;
+    };
+    const T = brentRoot(f, Ta, Tb, qa, qb, 1e-13 * Tb);
+    if (Number.isNaN(T)) return;
+    const m = depth(T, uNow);
+    found.push({ T, u: m.u, kind: qa < 0 ? 'upper' : 'lower' });
+  };
+
+  for (let i = 0; i + 1 < SAMPLES; i++) {
+    for (const a of minimaAt[i]) {
+      const b = nearest(minimaAt[i + 1], a.u);
+      if (!b) continue;
+      if (a.q < 0 !== b.q < 0) rootBetween(Ts[i], Ts[i + 1], a.q, b.q, a.u);
+      // a dip (or a bump) between samples: depth near zero with a local extremum in T
+      const c = i + 2 < SAMPLES ? nearest(minimaAt[i + 2], b.u) : undefined;
+      if (c && b.q < 0 === a.q < 0 && b.q < 0 === c.q < 0 && Math.abs(b.q) < 0.2) {
+        const sign = b.q > 0 ? 1 : -1;
+        if (sign * (a.q - b.q) > 0 && sign * (c.q - b.q) > 0) {
+          let uNow = b.u;
+          const extreme = brentMin((T) => {
+            const m = depth(T, uNow);
+            uNow = m.u;
+            return sign * m.q;
+          }, Ts[i], Ts[i + 2], 1e-9 * Ts[i + 2]);
+          const qx = sign * extreme.f;
+          if (qx < 0 !== b.q < 0) {
+            rootBetween(Ts[i], extreme.t, a.q, qx, a.u);
+            rootBetween(extreme.t, Ts[i + 2], qx, c.q, uNow);
+          }
+        }
+      }
+    }
+  }
+
+  const points: CriticalPoint[] = [];
+  for (const f of found) {
+    if (points.some((p) => Math.abs(p.T - f.T) < 1e-9 * f.T && Math.abs(pointAt(f.u).x - p.x) < 1e-6)) continue;
+    if (closesThere(model, f.T, f.u, f.kind)) points.push({ T: f.T, x: pointAt(f.u).x, kind: f.kind });
+  }
+  return points.sort((p, q) => q.T - p.T);
+}
+
+function nearest(list: Track[], u: number): Track | undefined {
+  let best: Track | undefined;
+  for (const m of list) if (Math.abs(m.u - u) < 1 && (!best || Math.abs(m.u - u) < Math.abs(best.u - u))) best = m;
+  return best;
+}
+
+/** The local minimum of q nearest to u (searched within +-0.5 in u). */
+function localMinimum(iso: Isotherm, u: number): { u: number; q: number } {
+  const slope = (t: number) => curvatureSlope(iso, pointAt(t));
+  let a = u - 0.5, b = u + 0.5;
+  let sa = slope(a), sb = slope(b);
+  for (let k = 0; k < 4 && !(sa < 0 && sb > 0); k++) {
+    if (sa >= 0) { a -= 0.5; sa = slope(a); }
+    if (sb <= 0) { b += 0.5; sb = slope(b); }
+  }
+  const t = sa < 0 && sb > 0 ? brentRoot(slope, a, b, sa, sb, 1e-14) : brentMin((s) => curvature(iso, pointAt(s)), a, b, 1e-13).t;
+  return { u: t, q: curvature(iso, pointAt(t)) };
+}
+
+/**
+ * Whether a gap really closes at (Tc, xc): on the side where it exists, a gap must contain xc
+ * and narrow like sqrt(|T - Tc|) towards it (width ratio 1/2 for a quarter of the distance).
+ */
+function closesThere(model: BinaryModel, Tc: number, u: number, kind: 'upper' | 'lower'): boolean {
+  const xc = pointAt(u).x;
+  const width = (dT: number) => {
+    const T = kind === 'upper' ? Tc - dT : Tc + dT;
+    if (!(T > 0)) return NaN;
+    try {
+      const gap = phaseMap(model.at(T)).gaps.find((g) => g.low.x < xc && xc < g.high.x);
+      return gap ? gap.high.x - gap.low.x : NaN;
+    } catch {
+      return NaN;
+    }
+  };
+  const dT = 1e-4 * Tc;
+  const wide = width(dT), narrow = width(dT / 4);
+  if (!(wide > 0 && narrow > 0)) return false;
+  const ratio = narrow / wide;
+  return ratio > 0.3 && ratio < 0.7;
+}
+
+/** The critical point numbered n (1 = highest temperature). */
+export function criticalPoint(points: CriticalPoint[], n: number): CriticalPoint {
+  if (points.length === 0) fail('none', 'this system has no critical point between 1 K and 20000 K');
+  if (!(n >= 1 && n <= points.length && Number.isInteger(n))) {
+    fail('range', `critical point ${n} does not exist: this system has ${points.length} (numbered 1 to ${points.length}, highest temperature first)`);
+  }
+  return points[n - 1];
+}

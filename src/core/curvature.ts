@@ -1,0 +1,152 @@
+import { fail } from './errors';
+import type { Isotherm, Point } from './model';
+import { pointAt } from './model';
+import { brentMin, brentRoot, newtonRoot } from './roots';
+
+/**
+ * Scaled curvature q(u) = x y g''(x) / (R T) as a function of u = ln(x / y).
+ * q has the sign of g'' and tends to the ideal-solution value 1 (or the Flory–Huggins end values)
+ * at both dilute ends, so it is well scaled over the whole composition range.
+ *   dq/du = x y [(y - x) g'' + x y g'''] / (R T)
+ */
+export function curvature(iso: Isotherm, p: Point): number {
+  return (p.x * p.y * iso.d2g(p.x, p.y)) / iso.RT;
+}
+
+export function curvatureSlope(iso: Isotherm, p: Point): number {
+  const { x, y } = p;
+  return (x * y * ((y - x) * iso.d2g(x, y) + x * y * iso.d3g(x, y))) / iso.RT;
+}
+
+/** A local minimum of q, refined. */
+export interface CurvatureMinimum {
+  point: Point;
+  q: number;
+}
+
+/** The unstable intervals (g'' < 0) at one temperature and the local minima of q found on the way. */
+export interface CurvatureMap {
+  /** Spinodal points, sorted by x: pairs [2i, 2i+1] bound the i-th unstable interval. */
+  spinodal: Point[];
+  /** Every local minimum of q (refined), sorted by x. */
+  minima: CurvatureMinimum[];
+}
+
+/** A sampling grid in u: dense near x = 1/2 (u = 0), sparse towards the dilute ends. */
+interface Grid {
+  points: Point[];
+  u: Float64Array;
+  x: Float64Array;
+  y: Float64Array;
+}
+
+const grids = new Map<number, Grid>();
+
+/** u = a sinh(b t), t uniform in [-1, 1]: spacing 0.1 at u = 0, reaching |u| = U at the ends. */
+function gridFor(U: number): Grid {
+  let grid = grids.get(U);
+  if (grid) return grid;
+  const N = 141;
+  const du0 = 0.1;
+  // a b = du0 (N - 1) / 2 and a sinh(b) = U: solve sinh(b)/b = U / (a b) for b by bisection.
+  const ab = (du0 * (N - 1)) / 2;
+  let lo = 1e-6, hi = 50;
+  for (let i = 0; i < 200; i++) {
+    const mid = 0.5 * (lo + hi);
+    if (Math.sinh(mid) / mid < U / ab) lo = mid; else hi = mid;
+  }
+  const b = 0.5 * (lo + hi), a = ab / b;
+  const points: Point[] = [];
+  for (let i = 0; i < N; i++) points.push(pointAt(a * Math.sinh(b * (-1 + (2 * i) / (N - 1)))));
+  grid = {
+    points,
+    u: Float64Array.from(points, (p) => p.u),
+    x: Float64Array.from(points, (p) => p.x),
+    y: Float64Array.from(points, (p) => p.y),
+  };
+  grids.set(U, grid);
+  return grid;
+}
+
+/** The sampling ranges tried in turn; the widest reaches x = 1e-304. */
+const RANGES = [40, 160, 700];
+
+/**
+ * Finds every spinodal point (root of g'') and every local minimum of q at one temperature.
+ * Sampling finds sign changes; each sampled local minimum (maximum) of q is refined, so an
+ * unstable interval narrower than the sampling step (near a critical point) is not missed.
+ * With `refineAll` false, minima that are already negative are not refined (the binodal solver
+ * does not need their depth).
+ */
+export function curvatureMap(iso: Isotherm, refineAll = true, near?: readonly Point[]): CurvatureMap {
+  for (const U of RANGES) {
+    const { points, x, y } = gridFor(U);
+    const n = points.length;
+    const q = new Float64Array(n);
+    const RT = iso.RT;
+    for (let i = 0; i < n; i++) q[i] = (x[i] * y[i] * iso.d2g(x[i], y[i])) / RT;
+    if (!(q[0] > 0 && q[n - 1] > 0)) {
+      if (Number.isNaN(q[0]) || Number.isNaN(q[n - 1])) fail('input', `g'' cannot be evaluated at T = ${iso.T} K`);
+      continue; // still unstable at the sampled ends: sample wider
+    }
+    return analyse(iso, points, q, refineAll, near);
+  }
+  return fail('range', `the solution is unstable even at x = 1e-304 at T = ${iso.T} K: the parameters are too large for this temperature`);
+}
+
+/** `near`: spinodal points of a nearby temperature; a root in the same sampling cell starts Newton there. */
+function analyse(iso: Isotherm, points: Point[], q: Float64Array, refineAll: boolean, near?: readonly Point[]): CurvatureMap {
+  const spinodal: Point[] = [];
+  const minima: CurvatureMinimum[] = [];
+  const qAt = (u: number) => curvature(iso, pointAt(u));
+  const qdq = (u: number, out: Float64Array) => {
+    const p = pointAt(u);
+    out[0] = curvatureSlope(iso, p);
+    return curvature(iso, p);
+  };
+  const root = (u0: number, u1: number, q0: number, q1: number) => {
+    let start: number | undefined;
+    if (near) for (const p of near) if (p.u > u0 && p.u < u1) start = p.u;
+    let u = start !== undefined ? newtonRoot(qdq, u0, u1, q0, start, 1e-14) : NaN;
+    if (Number.isNaN(u)) u = brentRoot(qAt, u0, u1, q0, q1, 1e-14);
+    if (Number.isNaN(u)) fail('convergence', `spinodal root search failed at T = ${iso.T} K`);
+    spinodal.push(pointAt(u));
+  };
+  for (let i = 0; i + 1 < q.length; i++) {
+    if (q[i] > 0 !== q[i + 1] > 0) root(points[i].u, points[i + 1].u, q[i], q[i + 1]);
+    if (i === 0) continue;
+    const isMin = q[i] <= q[i - 1] && q[i] < q[i + 1];
+    const isMax = q[i] >= q[i - 1] && q[i] > q[i + 1];
+    // A sampled minimum above 1/2 cannot reach zero within one step of the grid for any model of
+    // reasonable order (it would need |d2q/du2| > 100); those are refined only when asked for.
+    if (isMin && ((q[i] > 0 && q[i] < 0.5) || refineAll)) {
+      const m = refineExtremum(iso, points[i - 1].u, points[i + 1].u, 1);
+      minima.push({ point: pointAt(m.u), q: m.q });
+      if (q[i] > 0 && m.q < 0) {
+        // a narrow unstable interval between samples
+        root(points[i - 1].u, m.u, q[i - 1], m.q);
+        root(m.u, points[i + 1].u, m.q, q[i + 1]);
+      }
+    } else if (isMax && q[i] <= 0) {
+      const m = refineExtremum(iso, points[i - 1].u, points[i + 1].u, -1);
+      if (m.q > 0) {
+        // a narrow stable island between samples splits one unstable interval in two
+        root(points[i - 1].u, m.u, q[i - 1], m.q);
+        root(m.u, points[i + 1].u, m.q, q[i + 1]);
+      }
+    }
+  }
+  spinodal.sort((a, b) => a.u - b.u);
+  if (spinodal.length % 2 !== 0) fail('convergence', `odd number of spinodal points at T = ${iso.T} K`);
+  return { spinodal, minima };
+}
+
+/** Refines a local minimum (sign 1) or maximum (sign -1) of q on [u0, u1]: root of dq/du, or a bounded search. */
+function refineExtremum(iso: Isotherm, u0: number, u1: number, sign: 1 | -1): { u: number; q: number } {
+  const slope = (u: number) => sign * curvatureSlope(iso, pointAt(u));
+  const s0 = slope(u0), s1 = slope(u1);
+  let u: number;
+  if (s0 < 0 && s1 > 0) u = brentRoot(slope, u0, u1, s0, s1, 1e-13);
+  else u = brentMin((t) => sign * curvature(iso, pointAt(t)), u0, u1, 1e-13).t;
+  return { u, q: curvature(iso, pointAt(u)) };
+}

@@ -1,0 +1,65 @@
+import { phaseMap, type Gap, type PhaseMap } from './binodal';
+import type { CriticalPoint } from './critical';
+import type { BinaryModel, Point } from './model';
+import { pointAt, logRatio } from './model';
+
+/** One row of a gap table; NaN where the gap does not exist at that temperature. */
+export interface GapRow {
+  T: number;
+  low: number;
+  high: number;
+  spinLow: number;
+  spinHigh: number;
+}
+
+/**
+ * Temperature, binodal and spinodal compositions of gap n (numbered from low x) at `rows`
+ * temperatures evenly spaced from T1 to T2. Each critical temperature strictly between T1 and T2
+ * replaces the nearest interior grid temperature, and its row holds the critical composition in
+ * all four columns, so a chart of the table closes its dome at the critical point. The spinodal
+ * columns give the outermost spinodal points inside the gap. Each temperature starts from the
+ * answer of the previous one.
+ */
+export function gapTable(
+  model: BinaryModel, T1: number, T2: number, rows: number, n: number, critical: readonly CriticalPoint[],
+): GapRow[] {
+  const Ts: number[] = [];
+  for (let i = 0; i < rows; i++) Ts.push(rows === 1 ? T1 : T1 + ((T2 - T1) * i) / (rows - 1));
+  const critAt = new Map<number, CriticalPoint>();
+  const [tMin, tMax] = T1 < T2 ? [T1, T2] : [T2, T1];
+  for (const c of critical) {
+    if (!(c.T > tMin && c.T < tMax) || rows < 3) continue;
+    let best = -1;
+    for (let i = 1; i < rows - 1; i++) {
+      if (critAt.has(i)) continue;
+      if (best < 0 || Math.abs(Ts[i] - c.T) < Math.abs(Ts[best] - c.T)) best = i;
+    }
+    if (best >= 0) {
+      critAt.set(best, c);
+      Ts[best] = c.T;
+    }
+  }
+  const table: GapRow[] = [];
+  let hint: PhaseMap | undefined;
+  for (let i = 0; i < rows; i++) {
+    const T = Ts[i];
+    const map = phaseMap(model.at(T), hint);
+    if (!critAt.has(i)) hint = map;
+    let gaps: Gap[] = map.gaps;
+    const c = critAt.get(i);
+    if (c) {
+      const p: Point = pointAt(logRatio(c.x));
+      gaps = [...gaps, { low: p, high: p, slope: NaN }].sort((a, b) => a.low.x - b.low.x);
+    }
+    const gap = gaps[n - 1];
+    if (!gap) {
+      table.push({ T, low: NaN, high: NaN, spinLow: NaN, spinHigh: NaN });
+      continue;
+    }
+    const inner = map.spinodal.filter((s) => s.x > gap.low.x && s.x < gap.high.x).map((s) => s.x);
+    const spinLow = gap.low === gap.high ? gap.low.x : inner.length ? Math.min(...inner) : NaN;
+    const spinHigh = gap.low === gap.high ? gap.low.x : inner.length ? Math.max(...inner) : NaN;
+    table.push({ T, low: gap.low.x, high: gap.high.x, spinLow, spinHigh });
+  }
+  return table;
+}

@@ -1,0 +1,69 @@
+/**
+ * The model interface every solver is written against.
+ *
+ * A binary model describes the molar Gibbs energy of mixing g(x, T) of components A and B, x being
+ * the mole fraction of B (the volume fraction for Flory–Huggins). Solvers never branch on the model:
+ * they ask an `Isotherm` (the model at one temperature) for g and its derivatives.
+ *
+ * Compositions travel as the pair (x, y) with y = 1 - x computed without cancellation, so that both
+ * dilute ends (x -> 0 and x -> 1) keep full relative precision.
+ *
+ * Ternary systems will get their own `TernaryModel` beside this one; `components` already says how
+ * many there are.
+ */
+export interface BinaryModel {
+  /** Which family ('redlich-kister', 'flory-huggins', 'nrtl'). */
+  readonly family: string;
+  readonly components: 2;
+  /** A stable text that identifies the parameters, used as a cache key. */
+  readonly key: string;
+  /** The model with its temperature-dependent parameters evaluated at T (kelvin, > 0). */
+  at(T: number): Isotherm;
+}
+
+/** A binary model at one temperature. Energies in J/mol; x = mole fraction of B, y = 1 - x. */
+export interface Isotherm {
+  readonly T: number;
+  /** R T, J/mol. */
+  readonly RT: number;
+  /** g(x): molar Gibbs energy of mixing. */
+  g(x: number, y: number): number;
+  /** dg/dx at fixed T. */
+  dg(x: number, y: number): number;
+  /** d2g/dx2. */
+  d2g(x: number, y: number): number;
+  /** d3g/dx3. */
+  d3g(x: number, y: number): number;
+}
+
+/** A composition given by its log-ratio u = ln(x / y): x and y = 1 - x, both to full precision. */
+export interface Point {
+  u: number;
+  x: number;
+  y: number;
+}
+
+/** x and y = 1 - x from u = ln(x / y), without cancellation at either end. */
+export function pointAt(u: number): Point {
+  if (u < 0) {
+    const e = Math.exp(u);
+    return { u, x: e / (1 + e), y: 1 / (1 + e) };
+  }
+  const e = Math.exp(-u);
+  return { u, x: 1 / (1 + e), y: e / (1 + e) };
+}
+
+/** u = ln(x / (1 - x)) for 0 < x < 1. */
+export function logRatio(x: number): number {
+  return x < 0.5 ? Math.log(x) - Math.log1p(-x) : Math.log(x / (1 - x));
+}
+
+/** Chemical potential of A relative to pure A: mu_A = g - x g'. */
+export function muA(iso: Isotherm, x: number, y: number): number {
+  return iso.g(x, y) - x * iso.dg(x, y);
+}
+
+/** Chemical potential of B relative to pure B: mu_B = g + (1 - x) g'. */
+export function muB(iso: Isotherm, x: number, y: number): number {
+  return iso.g(x, y) + y * iso.dg(x, y);
+}

@@ -1,0 +1,111 @@
+import { R } from '../constants';
+import { fail } from '../errors';
+import type { BinaryModel, Isotherm } from '../model';
+
+/** One Redlich–Kister term: L_k(T) = a + b T + c T ln T (a in J/mol, b and c in J/(mol K)). */
+export interface RedlichKisterTerm {
+  a: number;
+  b: number;
+  c: number;
+}
+
+/**
+ * Redlich–Kister solution (the regular solution is the single term L0 = Omega):
+ *   g = RT[x ln x + (1-x) ln(1-x)] + x(1-x) sum_k L_k(T) (1-2x)^k
+ */
+export function redlichKister(terms: readonly RedlichKisterTerm[]): BinaryModel {
+  if (terms.length === 0) fail('input', 'a Redlich–Kister model needs at least one term (row L0)');
+  terms.forEach((t, k) => {
+    for (const name of ['a', 'b', 'c'] as const) {
+      if (!Number.isFinite(t[name])) fail('input', `Redlich–Kister term L${k}: ${name} must be a finite number`);
+    }
+  });
+  const frozen = terms.map((t) => ({ a: t.a, b: t.b, c: t.c }));
+  const key = 'RK:' + frozen.map((t) => `${t.a},${t.b},${t.c}`).join(';');
+  return {
+    family: 'redlich-kister',
+    components: 2,
+    key,
+    at: (T) => redlichKisterAt(frozen, T),
+  };
+}
+
+/** The regular solution: one temperature-independent interaction energy Omega (J/mol). */
+export function regularSolution(omega: number): BinaryModel {
+  return redlichKister([{ a: omega, b: 0, c: 0 }]);
+}
+
+/** L_k(T) for every term. */
+export function coefficientsAt(terms: readonly RedlichKisterTerm[], T: number): number[] {
+  const lnT = Math.log(T);
+  return terms.map((t) => t.a + t.b * T + t.c * T * lnT);
+}
+
+function redlichKisterAt(terms: readonly RedlichKisterTerm[], T: number): Isotherm {
+  return new RedlichKisterIsotherm(Float64Array.from(coefficientsAt(terms, T)), T);
+}
+
+/**
+ * The Redlich–Kister model at one temperature. With d = 1 - 2x = y - x, w = x y and
+ * P(d) = sum_k L_k d^k (dd/dx = -2, dw/dx = d):
+ *   g    = RT[x ln x + y ln y] + w P
+ *   g'   = RT ln(x/y) + d P - 2 w P'
+ *   g''  = RT/(x y) - 2P - 4 d P' + 4 w P''
+ *   g''' = RT (1/y^2 - 1/x^2) + 12 P' + 12 d P'' - 8 w P'''
+ * Each method runs Horner's scheme for P and the derivatives it needs on local variables
+ * (the solvers call these in their inner loops).
+ */
+class RedlichKisterIsotherm implements Isotherm {
+  readonly RT: number;
+  constructor(
+    private readonly L: Float64Array,
+    readonly T: number,
+  ) {
+    this.RT = R * T;
+  }
+
+  g(x: number, y: number): number {
+    const L = this.L, d = y - x;
+    let P = 0;
+    for (let k = L.length - 1; k >= 0; k--) P = P * d + L[k];
+    return this.RT * (xlnx(x) + xlnx(y)) + x * y * P;
+  }
+
+  dg(x: number, y: number): number {
+    const L = this.L, d = y - x;
+    let P = 0, P1 = 0;
+    for (let k = L.length - 1; k >= 0; k--) {
+      P1 = P1 * d + P;
+      P = P * d + L[k];
+    }
+    return this.RT * (Math.log(x) - Math.log(y)) + d * P - 2 * x * y * P1;
+  }
+
+  d2g(x: number, y: number): number {
+    const L = this.L, d = y - x;
+    let P = 0, P1 = 0, H2 = 0; // H2 = P''/2
+    for (let k = L.length - 1; k >= 0; k--) {
+      H2 = H2 * d + P1;
+      P1 = P1 * d + P;
+      P = P * d + L[k];
+    }
+    return this.RT / (x * y) - 2 * P - 4 * d * P1 + 8 * x * y * H2;
+  }
+
+  d3g(x: number, y: number): number {
+    const L = this.L, d = y - x;
+    let P = 0, P1 = 0, H2 = 0, H3 = 0; // H2 = P''/2, H3 = P'''/6
+    for (let k = L.length - 1; k >= 0; k--) {
+      H3 = H3 * d + H2;
+      H2 = H2 * d + P1;
+      P1 = P1 * d + P;
+      P = P * d + L[k];
+    }
+    return this.RT * (1 / (y * y) - 1 / (x * x)) + 12 * P1 + 24 * d * H2 - 48 * x * y * H3;
+  }
+}
+
+/** x ln x, with the limit 0 at x = 0. */
+export function xlnx(x: number): number {
+  return x > 0 ? x * Math.log(x) : 0;
+}

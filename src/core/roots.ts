@@ -1,0 +1,104 @@
+/** Small root finders and minimisers over one variable, shared by the solvers. */
+
+/**
+ * Brent's method (zeroin) for f(t) = 0 on [a, b] with f(a), f(b) of opposite signs (or one zero).
+ * Converges to |b - a| <= 2 eps |b| + tol. Returns NaN if the bracket is not a bracket.
+ */
+export function brentRoot(f: (t: number) => number, a: number, b: number, fa: number, fb: number, tol = 0): number {
+  if (fa === 0) return a;
+  if (fb === 0) return b;
+  if ((fa > 0) === (fb > 0)) return NaN;
+  let c = a, fc = fa, d = b - a, e = d;
+  for (let iter = 0; iter < 200; iter++) {
+    if ((fb > 0) === (fc > 0)) { c = a; fc = fa; d = b - a; e = d; }
+    if (Math.abs(fc) < Math.abs(fb)) { a = b; b = c; c = a; fa = fb; fb = fc; fc = fa; }
+    const tol1 = 2 * Number.EPSILON * Math.abs(b) + 0.5 * tol;
+    const xm = 0.5 * (c - b);
+    if (Math.abs(xm) <= tol1 || fb === 0) return b;
+    if (Math.abs(e) >= tol1 && Math.abs(fa) > Math.abs(fb)) {
+      const s = fb / fa;
+      let p: number, q: number;
+      if (a === c) { p = 2 * xm * s; q = 1 - s; }
+      else {
+        const qq = fa / fc, r = fb / fc;
+        p = s * (2 * xm * qq * (qq - r) - (b - a) * (r - 1));
+        q = (qq - 1) * (r - 1) * (s - 1);
+      }
+      if (p > 0) q = -q; else p = -p;
+      if (2 * p < Math.min(3 * xm * q - Math.abs(tol1 * q), Math.abs(e * q))) { e = d; d = p / q; }
+      else { d = xm; e = d; }
+    } else { d = xm; e = d; }
+    a = b; fa = fb;
+    b += Math.abs(d) > tol1 ? d : (xm > 0 ? tol1 : -tol1);
+    fb = f(b);
+  }
+  return b;
+}
+
+/**
+ * Minimum of f on [a, b] by golden-section search with parabolic steps (Brent's fmin).
+ * Returns the abscissa; tolerance relative 1e-10 plus `tol`.
+ */
+export function brentMin(f: (t: number) => number, a: number, b: number, tol = 1e-12): { t: number; f: number } {
+  const golden = 0.3819660112501051;
+  let v = a + golden * (b - a), w = v, x = v;
+  let fx = f(x), fv = fx, fw = fx;
+  let d = 0, e = 0;
+  for (let iter = 0; iter < 200; iter++) {
+    const xm = 0.5 * (a + b);
+    const tol1 = 1e-10 * Math.abs(x) + tol, tol2 = 2 * tol1;
+    if (Math.abs(x - xm) <= tol2 - 0.5 * (b - a)) break;
+    let useGolden = true;
+    if (Math.abs(e) > tol1) {
+      let r = (x - w) * (fx - fv), q = (x - v) * (fx - fw), p = (x - v) * q - (x - w) * r;
+      q = 2 * (q - r);
+      if (q > 0) p = -p; else q = -q;
+      const etemp = e;
+      e = d;
+      if (!(Math.abs(p) >= Math.abs(0.5 * q * etemp) || p <= q * (a - x) || p >= q * (b - x))) {
+        d = p / q;
+        const u = x + d;
+        if (u - a < tol2 || b - u < tol2) d = xm - x >= 0 ? tol1 : -tol1;
+        useGolden = false;
+      }
+    }
+    if (useGolden) { e = x >= xm ? a - x : b - x; d = golden * e; }
+    const u = Math.abs(d) >= tol1 ? x + d : x + (d >= 0 ? tol1 : -tol1);
+    const fu = f(u);
+    if (fu <= fx) {
+      if (u >= x) a = x; else b = x;
+      v = w; fv = fw; w = x; fw = fx; x = u; fx = fu;
+    } else {
+      if (u < x) a = u; else b = u;
+      if (fu <= fw || w === x) { v = w; fv = fw; w = u; fw = fu; }
+      else if (fu <= fv || v === x || v === w) { v = u; fv = fu; }
+    }
+  }
+  return { t: x, f: fx };
+}
+
+/**
+ * Safeguarded Newton for f(t) = 0 on [lo, hi] with f(lo) and f(hi) of opposite signs, started at t0:
+ * a Newton step that leaves the shrinking bracket is replaced by bisection. `fdf` returns f and
+ * writes f' into out[0]. Returns NaN if it does not meet |step| <= tol within 100 steps.
+ */
+const slopeOut = new Float64Array(1);
+
+export function newtonRoot(
+  fdf: (t: number, out: Float64Array) => number,
+  lo: number, hi: number, fLo: number, t0: number, tol: number,
+): number {
+  const out = slopeOut;
+  const rising = fLo < 0;
+  let t = t0 > lo && t0 < hi ? t0 : 0.5 * (lo + hi);
+  for (let iter = 0; iter < 100; iter++) {
+    const f = fdf(t, out);
+    if (f === 0) return t;
+    if ((f < 0) === rising) lo = t; else hi = t;
+    let next = t - f / out[0];
+    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
+    if (Math.abs(next - t) <= tol || hi - lo <= tol) return next;
+    t = next;
+  }
+  return NaN;
+}

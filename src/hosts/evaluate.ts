@@ -1,0 +1,64 @@
+/**
+ * Evaluates formula texts, each as if typed into a cell of its own, and reads back what the cell
+ * shows: a value, an error with its message, or the whole range of a spilled result.
+ */
+import { DetailedCellError } from 'hyperformula';
+import type { CellValue, HyperFormula } from 'hyperformula';
+
+/** An error as the command reports it: the spreadsheet code and what to fix. */
+export interface ErrorCell {
+  error: string;
+  message: string;
+}
+
+/** One cell of a result. */
+export type ResultCell = number | string | boolean | null | ErrorCell;
+
+/** What one formula gives: a single cell, or the rows of a spilled result. */
+export type FormulaResult = ResultCell | ResultCell[][];
+
+const fallbackMessages: Record<string, string> = {
+  '#DIV/0!': 'division by zero',
+  '#NAME?': 'unknown function or name',
+  '#VALUE!': 'wrong kind of value',
+  '#NUM!': 'number out of range',
+  '#N/A': 'value not available',
+  '#REF!': 'invalid reference',
+  '#CYCLE!': 'circular reference',
+  '#SPILL!': 'no room for the spilled result',
+  '#ERROR!': 'the formula could not be parsed',
+};
+
+function toResultCell(v: CellValue): ResultCell {
+  if (v instanceof DetailedCellError) {
+    return { error: v.value, message: v.message || fallbackMessages[v.value] || 'error' };
+  }
+  return v;
+}
+
+/** A formula text as typed; a text without the leading `=` is taken as a formula all the same. */
+export function asFormula(text: string): string {
+  const t = text.trim();
+  return t.startsWith('=') ? t : `=${t}`;
+}
+
+/**
+ * Puts each formula in cell A1 of a sheet of its own (so spilled results never collide) and returns
+ * the value of each: the cell's value, or the rows of its spill range.
+ */
+export function evaluateFormulas(engine: HyperFormula, formulas: string[]): FormulaResult[] {
+  const sheets: number[] = [];
+  engine.batch(() => {
+    formulas.forEach((formula, i) => {
+      const name = engine.addSheet(`Formula ${engine.countSheets() + 1}.${i + 1}`);
+      const sheet = engine.getSheetId(name)!;
+      sheets.push(sheet);
+      engine.setCellContents({ sheet, row: 0, col: 0 }, [[asFormula(formula)]]);
+    });
+  });
+  return sheets.map((sheet) => {
+    const anchor = { sheet, row: 0, col: 0 };
+    if (!engine.isCellPartOfArray(anchor)) return toResultCell(engine.getCellValue(anchor));
+    return engine.getSheetValues(sheet).map((row) => row.map(toResultCell));
+  });
+}

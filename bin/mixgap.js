@@ -9,6 +9,11 @@ if (!fs.existsSync(bundle)) {
   process.stderr.write('mixgap: the command is not built yet: run `npm run build` first\n');
   process.exit(2);
 }
+// A reader that stops early (`mixgap functions | head`) is not an error.
+process.stdout.on('error', (err) => {
+  if (err.code === 'EPIPE') process.exit(0);
+  throw err;
+});
 require(bundle).main(process.argv).then(
   (code) => { process.exitCode = code; },
   (err) => {

@@ -95,11 +95,12 @@ export async function main(argv: string[]): Promise<number> {
 
   program
     .command('functions')
-    .description('list the Mixgap cell functions and their parameters')
+    .description('list the Mixgap cell functions: one line per signature, then its description indented')
     .action(() => {
       for (const f of loadMetadata().functions) {
         const params = f.parameters.map((p) => (p.optional ? `[${p.name}]` : p.name)).join(', ');
-        process.stdout.write(`${NAMESPACE}.${f.name}(${params})${f.description ? `  ${f.description}` : ''}\n`);
+        const description = (f.description ?? '').replace(/\s+/g, ' ').trim();
+        process.stdout.write(`${NAMESPACE}.${f.name}(${params})\n${description ? `    ${description}\n` : ''}`);
       }
     });
 

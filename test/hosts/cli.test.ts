@@ -83,7 +83,8 @@ describe('mixgap functions', () => {
     const metadata = JSON.parse(readFileSync(path.join(root, 'dist', 'functions.json'), 'utf8'));
     const r = mixgap(['functions']);
     expect(r.status).toBe(0);
-    const names = r.stdout.trim().split('\n').map((line) => line.slice(0, line.indexOf('(')));
+    const signatures = r.stdout.split('\n').filter((line) => line !== '' && !line.startsWith(' '));
+    const names = signatures.map((line) => line.slice(0, line.indexOf('(')));
     expect(names).toEqual(metadata.functions.map((f: { name: string }) => `MIXGAP.${f.name}`));
   });
 });

@@ -17,7 +17,7 @@ export interface CriticalPoint {
 /** Temperatures sampled between 1 K and 20000 K, evenly in ln T (steps of 3.4 %). */
 const SAMPLES = 300;
 
-/** A local minimum of q = x y g''/RT followed from one sampled temperature to the next. */
+/** A local minimum of q = x y g''/RT (relative to its end values) followed over temperature. */
 interface Track {
   u: number;
   q: number;
@@ -40,7 +40,8 @@ export function criticalPoints(model: BinaryModel, Tmin = T_SEARCH_MIN, Tmax = T
   for (let i = 0; i < SAMPLES; i++) Ts.push(Tmin * Math.pow(Tmax / Tmin, i / (SAMPLES - 1)));
   const minimaAt = Ts.map((T) => {
     try {
-      return curvatureMap(model.at(T), true).minima.map((m) => ({ u: m.point.u, q: m.q }));
+      const map = curvatureMap(model.at(T), true);
+      return map.minima.map((m) => ({ u: m.point.u, q: m.q / map.scale }));
     } catch {
       return []; // g'' cannot be followed at this temperature (parameters far too large for it)
     }
@@ -48,24 +49,27 @@ export function criticalPoints(model: BinaryModel, Tmin = T_SEARCH_MIN, Tmax = T
 
   const found: Array<{ T: number; u: number; kind: 'upper' | 'lower' }> = [];
   const depth = (T: number, u: number) => localMinimum(model.at(T), u);
-  const rootBetween = (Ta: number, Tb: number, qa: number, qb: number, u: number) => {
+  const rootBetween = (Ta: number, Tb: number, u: number) => {
     let uNow = u;
     const f = (T: number) => {
       const m = depth(T, uNow);
       uNow = m.u;
       return m.q;
     };
-    const T = brentRoot(f, Ta, Tb, qa, qb, 1e-13 * Tb);
+    const fa = f(Ta), fb = f(Tb);
+    if (fa < 0 === fb < 0) return; // the followed minimum went elsewhere between samples
+    uNow = u;
+    const T = brentRoot(f, Ta, Tb, fa, fb, 1e-13 * Tb);
     if (Number.isNaN(T)) return;
     const m = depth(T, uNow);
-    found.push({ T, u: m.u, kind: qa < 0 ? 'upper' : 'lower' });
+    found.push({ T, u: m.u, kind: fa < 0 ? 'upper' : 'lower' });
   };
 
   for (let i = 0; i + 1 < SAMPLES; i++) {
     for (const a of minimaAt[i]) {
       const b = nearest(minimaAt[i + 1], a.u);
       if (!b) continue;
-      if (a.q < 0 !== b.q < 0) rootBetween(Ts[i], Ts[i + 1], a.q, b.q, a.u);
+      if (a.q < 0 !== b.q < 0) rootBetween(Ts[i], Ts[i + 1], a.u);
       // a dip (or a bump) between samples: depth near zero with a local extremum in T
       const c = i + 2 < SAMPLES ? nearest(minimaAt[i + 2], b.u) : undefined;
       if (c && b.q < 0 === a.q < 0 && b.q < 0 === c.q < 0 && Math.abs(b.q) < 0.2) {
@@ -79,8 +83,8 @@ export function criticalPoints(model: BinaryModel, Tmin = T_SEARCH_MIN, Tmax = T
           }, Ts[i], Ts[i + 2], 1e-9 * Ts[i + 2]);
           const qx = sign * extreme.f;
           if (qx < 0 !== b.q < 0) {
-            rootBetween(Ts[i], extreme.t, a.q, qx, a.u);
-            rootBetween(extreme.t, Ts[i + 2], qx, c.q, uNow);
+            rootBetween(Ts[i], extreme.t, a.u);
+            rootBetween(extreme.t, Ts[i + 2], uNow);
           }
         }
       }

@@ -26,6 +26,8 @@ export interface CurvatureMinimum {
 
 /** The unstable intervals (g'' < 0) at one temperature and the local minima of q found on the way. */
 export interface CurvatureMap {
+  /** The smaller of q at the two sampled ends: the scale of q for this model. */
+  scale: number;
   /** Spinodal points, sorted by x: pairs [2i, 2i+1] bound the i-th unstable interval. */
   spinodal: Point[];
   /** Every local minimum of q (refined), sorted by x. */
@@ -98,6 +100,7 @@ export function curvatureMap(iso: Isotherm, refineAll = true, near?: readonly Po
 function analyse(iso: Isotherm, points: Point[], q: Float64Array, refineAll: boolean, near?: readonly Point[]): CurvatureMap {
   const spinodal: Point[] = [];
   const minima: CurvatureMinimum[] = [];
+  const scale = Math.min(q[0], q[q.length - 1]);
   const qAt = (u: number) => curvature(iso, pointAt(u));
   const qdq = (u: number, out: Float64Array) => {
     const p = pointAt(u);
@@ -117,9 +120,10 @@ function analyse(iso: Isotherm, points: Point[], q: Float64Array, refineAll: boo
     if (i === 0) continue;
     const isMin = q[i] <= q[i - 1] && q[i] < q[i + 1];
     const isMax = q[i] >= q[i - 1] && q[i] > q[i + 1];
-    // A sampled minimum above 1/2 cannot reach zero within one step of the grid for any model of
-    // reasonable order (it would need |d2q/du2| > 100); those are refined only when asked for.
-    if (isMin && ((q[i] > 0 && q[i] < 0.5) || refineAll)) {
+    // q tends to its entropic values at the two ends (1 for mole-fraction models, 1/N for chains).
+    // A sampled minimum above half of the smaller one cannot reach zero within one step of the
+    // grid for any model of reasonable order; those are refined only when asked for.
+    if (isMin && ((q[i] > 0 && q[i] < 0.5 * scale) || refineAll)) {
       const m = refineExtremum(iso, points[i - 1].u, points[i + 1].u, 1);
       minima.push({ point: pointAt(m.u), q: m.q });
       if (q[i] > 0 && m.q < 0) {
@@ -138,7 +142,7 @@ function analyse(iso: Isotherm, points: Point[], q: Float64Array, refineAll: boo
   }
   spinodal.sort((a, b) => a.u - b.u);
   if (spinodal.length % 2 !== 0) fail('convergence', `odd number of spinodal points at T = ${iso.T} K`);
-  return { spinodal, minima };
+  return { spinodal, minima, scale };
 }
 
 /** Refines a local minimum (sign 1) or maximum (sign -1) of q on [u0, u1]: root of dq/du, or a bounded search. */

@@ -1,0 +1,69 @@
+import { R } from '../constants';
+import { fail } from '../errors';
+import type { BinaryModel, Isotherm } from '../model';
+
+/** Flory–Huggins parameters: chain lengths (lattice sites per molecule) and chi(T) = A + B/T. */
+export interface FloryHugginsParameters {
+  NA: number;
+  NB: number;
+  /** chi = A + B / T: A dimensionless, B in K. */
+  A: number;
+  B: number;
+}
+
+/**
+ * Flory–Huggins lattice solution, per mole of lattice sites; composition phi = volume fraction of B:
+ *   g    = RT[(phi/N_B) ln phi + ((1-phi)/N_A) ln(1-phi) + chi phi (1-phi)]
+ *   g'   = RT[(ln phi + 1)/N_B - (ln(1-phi) + 1)/N_A + chi (1 - 2 phi)]
+ *   g''  = RT[1/(N_B phi) + 1/(N_A (1-phi)) - 2 chi]
+ *   g''' = RT[1/(N_A (1-phi)^2) - 1/(N_B phi^2)]
+ */
+export function floryHuggins(p: FloryHugginsParameters): BinaryModel {
+  for (const name of ['NA', 'NB'] as const) {
+    if (!(Number.isFinite(p[name]) && p[name] >= 1)) fail('input', `Flory–Huggins chain length ${name} must be a number >= 1 (got ${p[name]})`);
+  }
+  for (const name of ['A', 'B'] as const) {
+    if (!Number.isFinite(p[name])) fail('input', `Flory–Huggins chi term ${name} must be a finite number`);
+  }
+  const { NA, NB, A, B } = p;
+  return {
+    family: 'flory-huggins',
+    components: 2,
+    key: `FH:${NA},${NB},${A},${B}`,
+    at: (T) => new FloryHugginsIsotherm(NA, NB, A + B / T, T),
+  };
+}
+
+/** chi(T) = A + B/T. */
+export function chiAt(p: Pick<FloryHugginsParameters, 'A' | 'B'>, T: number): number {
+  return p.A + p.B / T;
+}
+
+class FloryHugginsIsotherm implements Isotherm {
+  readonly RT: number;
+  constructor(
+    private readonly NA: number,
+    private readonly NB: number,
+    private readonly chi: number,
+    readonly T: number,
+  ) {
+    this.RT = R * T;
+  }
+
+  g(x: number, y: number): number {
+    const lx = x > 0 ? x * Math.log(x) : 0, ly = y > 0 ? y * Math.log(y) : 0;
+    return this.RT * (lx / this.NB + ly / this.NA + this.chi * x * y);
+  }
+
+  dg(x: number, y: number): number {
+    return this.RT * ((Math.log(x) + 1) / this.NB - (Math.log(y) + 1) / this.NA + this.chi * (y - x));
+  }
+
+  d2g(x: number, y: number): number {
+    return this.RT * (1 / (this.NB * x) + 1 / (this.NA * y) - 2 * this.chi);
+  }
+
+  d3g(x: number, y: number): number {
+    return this.RT * (1 / (this.NA * y * y) - 1 / (this.NB * x * x));
+  }
+}

@@ -1,0 +1,85 @@
+import { R } from '../constants';
+import { fail } from '../errors';
+import type { BinaryModel, Isotherm } from '../model';
+
+/** NRTL parameters: tau_ij = a_ij + b_ij / T (a dimensionless, b in K) and the non-randomness alpha. */
+export interface NrtlParameters {
+  a12: number;
+  b12: number;
+  a21: number;
+  b21: number;
+  alpha: number;
+}
+
+/**
+ * NRTL (Renon and Prausnitz, AIChE J. 14 (1968) 135), component 1 = A, 2 = B, x = x2:
+ *   g = RT[x1 ln x1 + x2 ln x2] + RT x1 x2 [tau21 G21/(x1 + x2 G21) + tau12 G12/(x2 + x1 G12)]
+ *   G_ij = exp(-alpha tau_ij)
+ * Each bracket term is C x(1-x)/(p + r x):
+ *   tau21 G21 x(1-x) / (1 + (G21 - 1) x)   and   tau12 G12 x(1-x) / (G12 + (1 - G12) x).
+ */
+export function nrtl(p: NrtlParameters): BinaryModel {
+  for (const name of ['a12', 'b12', 'a21', 'b21', 'alpha'] as const) {
+    if (!Number.isFinite(p[name])) fail('input', `NRTL parameter ${name} must be a finite number`);
+  }
+  if (!(p.alpha > 0)) fail('input', `NRTL alpha must be above 0 (typically 0.2 to 0.47; got ${p.alpha})`);
+  const { a12, b12, a21, b21, alpha } = p;
+  return {
+    family: 'nrtl',
+    components: 2,
+    key: `NRTL:${a12},${b12},${a21},${b21},${alpha}`,
+    at: (T) => new NrtlIsotherm(a12 + b12 / T, a21 + b21 / T, alpha, T),
+  };
+}
+
+class NrtlIsotherm implements Isotherm {
+  readonly RT: number;
+  private readonly C1: number;
+  private readonly p1: number;
+  private readonly r1: number;
+  private readonly C2: number;
+  private readonly p2: number;
+  private readonly r2: number;
+  constructor(tau12: number, tau21: number, alpha: number, readonly T: number) {
+    this.RT = R * T;
+    const G12 = Math.exp(-alpha * tau12), G21 = Math.exp(-alpha * tau21);
+    this.C1 = tau21 * G21; this.p1 = 1; this.r1 = G21 - 1;
+    this.C2 = tau12 * G12; this.p2 = G12; this.r2 = 1 - G12;
+  }
+
+  /**
+   * f = N/D with N = x y, D = p + r x, and its derivatives (N' = y - x, N'' = -2, N''' = 0;
+   * (1/D)' = -r/D^2, (1/D)'' = 2r^2/D^3, (1/D)''' = -6r^3/D^4), order 0 to 3.
+   */
+  private static f(x: number, y: number, p: number, r: number, order: number): number {
+    const N = x * y, N1 = y - x, E = 1 / (p + r * x), rE = r * E;
+    switch (order) {
+      case 0: return N * E;
+      case 1: return E * (N1 - N * rE);
+      case 2: return E * (-2 - 2 * N1 * rE + 2 * N * rE * rE);
+      default: return E * (6 * rE + 6 * N1 * rE * rE - 6 * N * rE * rE * rE);
+    }
+  }
+
+  private excess(x: number, y: number, order: number): number {
+    const F = NrtlIsotherm.f;
+    return this.RT * (this.C1 * F(x, y, this.p1, this.r1, order) + this.C2 * F(x, y, this.p2, this.r2, order));
+  }
+
+  g(x: number, y: number): number {
+    const lx = x > 0 ? x * Math.log(x) : 0, ly = y > 0 ? y * Math.log(y) : 0;
+    return this.RT * (lx + ly) + this.excess(x, y, 0);
+  }
+
+  dg(x: number, y: number): number {
+    return this.RT * (Math.log(x) - Math.log(y)) + this.excess(x, y, 1);
+  }
+
+  d2g(x: number, y: number): number {
+    return this.RT / (x * y) + this.excess(x, y, 2);
+  }
+
+  d3g(x: number, y: number): number {
+    return this.RT * (1 / (y * y) - 1 / (x * x)) + this.excess(x, y, 3);
+  }
+}

@@ -49,9 +49,8 @@ export function asFormula(text: string): string {
 export function evaluateFormulas(engine: HyperFormula, formulas: string[]): FormulaResult[] {
   const sheets: number[] = [];
   engine.batch(() => {
-    formulas.forEach((formula, i) => {
-      const name = engine.addSheet(`Formula ${engine.countSheets() + 1}.${i + 1}`);
-      const sheet = engine.getSheetId(name)!;
+    formulas.forEach((formula) => {
+      const sheet = engine.getSheetId(engine.addSheet())!; // a fresh, uniquely named sheet
       sheets.push(sheet);
       engine.setCellContents({ sheet, row: 0, col: 0 }, [[asFormula(formula)]]);
     });

@@ -64,6 +64,7 @@ interface AstNode {
   value?: unknown;
   expression?: AstNode;
   procedureName?: string;
+  expressionName?: string;
   args?: AstNode[];
 }
 interface ProcedureAst extends AstNode {
@@ -98,7 +99,7 @@ function internalError(name: string, what: unknown): CellError {
   return new CellError(ErrorType.VALUE, `internal error in ${name}: ${text}`);
 }
 
-/** The value of a literal argument (`3`, `-2.5`, `"text"`, `TRUE()`, `(4)`, `50%`); undefined otherwise. */
+/** The value of a literal argument (`3`, `-2.5`, `"text"`, `TRUE`, `TRUE()`, `(4)`, `50%`); undefined otherwise. */
 export function literalValue(ast: AstNode): LiteralArg {
   switch (ast.type) {
     case 'NUMBER':
@@ -113,6 +114,10 @@ export function literalValue(ast: AstNode): LiteralArg {
       const inner = ast.value ? literalValue(ast.value as AstNode) : undefined;
       if (typeof inner !== 'number') return undefined;
       return ast.type === 'MINUS_UNARY_OP' ? -inner : ast.type === 'PERCENT_OP' ? inner / 100 : inner;
+    }
+    case 'NAMED_EXPRESSION': {
+      const name = ast.expressionName?.toUpperCase();
+      return name === 'TRUE' || name === 'FALSE' ? name === 'TRUE' : undefined;
     }
     case 'FUNCTION_CALL':
       if ((ast.args?.length ?? 0) === 0 && (ast.procedureName === 'TRUE' || ast.procedureName === 'FALSE')) {
@@ -354,9 +359,13 @@ export function buildEngine(
 
   // Function names live in the (global) language package; the plugin itself is per engine.
   HyperFormula.getLanguage(config.language ?? 'enGB').extendFunctions(translations);
-  return HyperFormula.buildEmpty({
+  const engine = HyperFormula.buildEmpty({
     ...ENGINE_DEFAULTS,
     ...config,
     functionPlugins: [...HyperFormula.getAllFunctionPlugins(), MixgapPlugin],
   });
+  // HyperFormula knows only TRUE() and FALSE(); these names let formulas write TRUE and FALSE as in Excel.
+  engine.addNamedExpression('TRUE', '=TRUE()');
+  engine.addNamedExpression('FALSE', '=FALSE()');
+  return engine;
 }

@@ -52,6 +52,11 @@ describe('registration', () => {
     for (const a of associate) expect(a.id).toBe(a.functionName.toUpperCase());
   });
 
+  test('TRUE and FALSE can be written without parentheses, as in Excel', () => {
+    expect(evaluate('=IF(TRUE, 1, 2)')).toBe(1);
+    expect(evaluate('=AND(true, NOT(FALSE))')).toBe(true);
+  });
+
   test('built-in functions are still there', () => {
     expect(evaluate('=SUM(1, 2)')).toBe(3);
     expect(evaluate('=SEQUENCE(3, 2)')).toEqual([[1, 2], [3, 4], [5, 6]]);
@@ -126,6 +131,7 @@ describe('arguments', () => {
     expect(seen('=MIXGAP.LITERALS((4), +1, 50%, FALSE())')).toBe('literals [4,1,0.5,false]');
     expect(seen('=MIXGAP.LITERALS(B5, 1+2, {1,2}, SUM(1))')).toBe('literals [null,null,null,null]');
     expect(seen('=MIXGAP.LITERALS(7)')).toBe('literals [7]');
+    expect(seen('=MIXGAP.LITERALS(TRUE, false)')).toBe('literals [true,false]');
   });
 });
 

@@ -25,7 +25,7 @@ export interface PhaseMap {
  * A convex stretch of g between unstable intervals, [a, b] in u = ln(x / y). On it g' is increasing,
  * so for each tangent slope m in (g'(a), g'(b)) there is exactly one point with g' = m.
  */
-interface Branch {
+export interface Branch {
   a: number;
   b: number;
   /** g' at a and b (-Infinity and +Infinity at the dilute ends). */
@@ -114,7 +114,7 @@ function tangentNewton(iso: Isotherm, start: Gap, s1: number, s2: number): Gap |
   return undefined;
 }
 
-function convexBranches(iso: Isotherm, spinodal: Point[]): Branch[] {
+export function convexBranches(iso: Isotherm, spinodal: Point[]): Branch[] {
   const slopeAt = (p: Point) => iso.dg(p.x, p.y);
   const branches: Branch[] = [];
   let start: Point | undefined; // left end of the branch being built (undefined: the dilute A end)

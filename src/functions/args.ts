@@ -3,8 +3,9 @@
  * what to fix. Nothing numerical happens in this file.
  */
 import { MixgapError } from '../core/errors';
-import type { BinaryModel } from '../core/model';
 import { redlichKister, type RedlichKisterTerm } from '../core/models/redlichKister';
+import { JOULE_PER_MOLE, KELVIN } from '../core/units';
+import { isCard, readCard, signed, type System } from './card';
 import { CellFailure, toHostError, type Cell } from './errors';
 
 /** A cell value as hosts hand it over: empty cells arrive as null, undefined or ''. */
@@ -49,13 +50,6 @@ export function number(value: unknown, name: string): number {
   throw new CellFailure('#VALUE!', `${name} is the text "${String(value)}": give a number`);
 }
 
-/** Temperature in kelvin: finite and above 0 K. */
-export function kelvin(value: unknown, name = 'T'): number {
-  const T = number(value, name);
-  if (!(T > 0)) throw new CellFailure('#NUM!', `${name} = ${T} K: the temperature must be above 0 K (in kelvin)`);
-  return T;
-}
-
 /** A mole fraction strictly between 0 and 1. */
 export function fraction(value: unknown, name = 'x'): number {
   const x = number(value, name);
@@ -79,23 +73,22 @@ export function phaseSide(value: unknown): 'low' | 'high' {
   throw new CellFailure('#VALUE!', `phase = ${JSON.stringify(value)}: write "low" (the A-rich phase) or "high" (the B-rich phase)`);
 }
 
-/** A system description: for now the model; unit and name settings join it with parameter cards. */
-export interface System {
-  model: BinaryModel;
-}
+export type { System } from './card';
 
 /**
- * The parameter argument: a single number (regular solution, Omega in J/mol) or a numeric range of
- * Redlich–Kister rows (row k = term L_k; columns a [J/mol], b [J/(mol K)], c [J/(mol K)]; missing
- * columns are zero; empty rows after the last term are ignored).
+ * The parameter argument: a parameter card (two columns of keys and values, see ./card), a single
+ * number (regular solution, Omega in J/mol) or a numeric range of Redlich–Kister rows (row k = term
+ * L_k; columns a [J/mol], b [J/(mol K)], c [J/(mol K)]; missing columns are zero; empty rows after
+ * the last term are ignored). Bare numbers and ranges use J/mol and kelvin.
  */
 export function system(params: unknown): System {
   const grid: CellValue[][] = Array.isArray(params)
     ? (params as unknown[]).map((row) => (Array.isArray(row) ? (row as CellValue[]) : [row as CellValue]))
     : [[params as CellValue]];
+  if (isCard(grid)) return readCard(grid);
   const rows = grid.slice();
   while (rows.length > 0 && rows[rows.length - 1].every(isEmpty)) rows.pop();
-  if (rows.length === 0) throw new CellFailure('#VALUE!', 'params is empty: give Omega in J/mol, or rows of Redlich–Kister a, b, c');
+  if (rows.length === 0) throw new CellFailure('#VALUE!', 'params is empty: give Omega in J/mol, rows of Redlich–Kister a, b, c, or a parameter card');
   const width = Math.max(...rows.map((r) => r.length));
   const terms: RedlichKisterTerm[] = rows.map((row, k) => {
     const filled = row.filter((v) => !isEmpty(v)).length;
@@ -114,5 +107,41 @@ export function system(params: unknown): System {
     });
     return { a, b, c };
   });
-  return { model: redlichKister(terms) };
+  const model = redlichKister(terms);
+  const description = terms.length === 1 && terms[0].b === 0 && terms[0].c === 0
+    ? `regular solution, omega = ${terms[0].a} J/mol; energies in J/mol, temperatures in K`
+    : `Redlich–Kister, ${terms.length} term${terms.length > 1 ? 's' : ''}: ${terms.map((t, k) => `L${k} = ${t.a}${signed(t.b, 'T')}${signed(t.c, 'T ln T')}`).join('; ')} (J/mol, T in K); energies in J/mol, temperatures in K`;
+  return { model, energy: JOULE_PER_MOLE, temperature: KELVIN, names: { A: 'A', B: 'B' }, description };
+}
+
+/** A temperature argument in the system's unit, returned in kelvin (above 0 K). */
+export function temperatureIn(sys: System, value: unknown, name = 'T'): number {
+  const t = number(value, name);
+  const T = t + sys.temperature.offset;
+  if (!(T > 0)) {
+    const zero = sys.temperature.name === 'K' ? '0 K' : `${-sys.temperature.offset} °C`;
+    throw new CellFailure('#NUM!', `${name} = ${t} ${sys.temperature.name} is not above absolute zero (${zero})`);
+  }
+  return T;
+}
+
+/** A temperature in kelvin, given back in the system's unit. */
+export function temperatureOut(sys: System, T: number): number {
+  return T - sys.temperature.offset;
+}
+
+/** An energy in J/mol, given back in the system's unit. */
+export function energyOut(sys: System, J: number): number {
+  return J / sys.energy.toJoulePerMole;
+}
+
+/** Which component an argument names: "A", "B" or a card's component names; "B" when omitted. */
+export function component(value: unknown, sys: System): 'A' | 'B' {
+  if (isEmpty(value)) return 'B';
+  const text = typeof value === 'string' ? value.trim() : '';
+  const lower = text.toLowerCase();
+  if (lower === 'a' || lower === sys.names.A.toLowerCase()) return 'A';
+  if (lower === 'b' || lower === sys.names.B.toLowerCase()) return 'B';
+  const names = sys.names.A !== 'A' ? ` (or ${sys.names.A}, ${sys.names.B})` : '';
+  throw new CellFailure('#VALUE!', `component ${JSON.stringify(value)}: write "A" or "B"${names}`);
 }

@@ -5,96 +5,113 @@
  *
  * Parameter argument `params` everywhere: a single number (regular solution, Omega in J/mol) or a
  * range of Redlich–Kister rows a, b, c with L_k(T) = a + b T + c T ln T (J/mol, J/(mol K)).
- * Compositions are mole fractions of component B; temperatures are in kelvin.
+ * Compositions are mole fractions of component B (volume fractions for Flory–Huggins); temperatures
+ * are in kelvin and energies in J/mol unless a parameter card says otherwise.
  */
 import { criticalPoint } from '../core/critical';
 import { criticalPointsOf, equilibriumAt, gapAt, unstableAt } from '../core/equilibrium';
 import { gapTable as coreGapTable } from '../core/gapTable';
 import { gapTemperature } from '../core/gapTemperature';
 import { leverFractions } from '../core/leverRule';
-import { cell, cellOf, fraction, kelvin, number, ordinal, phaseSide, system } from './args';
+import { activities, decompositionGain, drivingForce, excessGibbs } from '../core/activity';
+import { cell, cellOf, component, energyOut, fraction, number, ordinal, phaseSide, system, temperatureIn, temperatureOut } from './args';
 import { CellFailure } from './errors';
 
 /**
  * Low (A-rich) boundary of a miscibility gap: the mole fraction of B of the A-rich phase that
  * coexists at temperature T (binodal).
  * @customfunction
- * @param T Temperature in kelvin.
- * @param params Omega in J/mol (regular solution), or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
+ * @param T Temperature (kelvin, or the card's temperature unit).
+ * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [gap] Which gap when there are several at T, numbered from low x (default 1).
  * @returns Mole fraction of B at the A-rich side of the gap.
  */
 export function gapLow(T: number, params: any[][], gap?: number): number {
-  return cell(() => gapAt(system(params).model, kelvin(T), ordinal(gap, 'gap')).low.x);
+  return cell(() => {
+    const sys = system(params);
+    return gapAt(sys.model, temperatureIn(sys, T), ordinal(gap, 'gap')).low.x;
+  });
 }
 
 /**
  * High (B-rich) boundary of a miscibility gap: the mole fraction of B of the B-rich phase that
  * coexists at temperature T (binodal).
  * @customfunction
- * @param T Temperature in kelvin.
- * @param params Omega in J/mol (regular solution), or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
+ * @param T Temperature (kelvin, or the card's temperature unit).
+ * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [gap] Which gap when there are several at T, numbered from low x (default 1).
  * @returns Mole fraction of B at the B-rich side of the gap.
  */
 export function gapHigh(T: number, params: any[][], gap?: number): number {
-  return cell(() => gapAt(system(params).model, kelvin(T), ordinal(gap, 'gap')).high.x);
+  return cell(() => {
+    const sys = system(params);
+    return gapAt(sys.model, temperatureIn(sys, T), ordinal(gap, 'gap')).high.x;
+  });
 }
 
 /**
  * Number of miscibility gaps at temperature T (0 when the solution is homogeneous).
  * @customfunction
- * @param T Temperature in kelvin.
- * @param params Omega in J/mol (regular solution), or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
+ * @param T Temperature (kelvin, or the card's temperature unit).
+ * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @returns Number of gaps.
  */
 export function gapCount(T: number, params: any[][]): number {
-  return cell(() => equilibriumAt(system(params).model, kelvin(T)).gaps.length);
+  return cell(() => {
+    const sys = system(params);
+    return equilibriumAt(sys.model, temperatureIn(sys, T)).gaps.length;
+  });
 }
 
 /**
  * Low end of an unstable interval (spinodal, where d2g/dx2 = 0) at temperature T.
  * @customfunction
- * @param T Temperature in kelvin.
- * @param params Omega in J/mol (regular solution), or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
+ * @param T Temperature (kelvin, or the card's temperature unit).
+ * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [interval] Which unstable interval when there are several, numbered from low x (default 1).
  * @returns Mole fraction of B at the low spinodal point.
  */
 export function spinLow(T: number, params: any[][], interval?: number): number {
-  return cell(() => unstableAt(system(params).model, kelvin(T), ordinal(interval, 'interval'))[0]);
+  return cell(() => {
+    const sys = system(params);
+    return unstableAt(sys.model, temperatureIn(sys, T), ordinal(interval, 'interval'))[0];
+  });
 }
 
 /**
  * High end of an unstable interval (spinodal, where d2g/dx2 = 0) at temperature T.
  * @customfunction
- * @param T Temperature in kelvin.
- * @param params Omega in J/mol (regular solution), or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
+ * @param T Temperature (kelvin, or the card's temperature unit).
+ * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [interval] Which unstable interval when there are several, numbered from low x (default 1).
  * @returns Mole fraction of B at the high spinodal point.
  */
 export function spinHigh(T: number, params: any[][], interval?: number): number {
-  return cell(() => unstableAt(system(params).model, kelvin(T), ordinal(interval, 'interval'))[1]);
+  return cell(() => {
+    const sys = system(params);
+    return unstableAt(sys.model, temperatureIn(sys, T), ordinal(interval, 'interval'))[1];
+  });
 }
 
 /**
  * Temperature of a critical (consolute) point, where a gap closes. Critical points between 1 K and
  * 20000 K are numbered by temperature, highest first; CRITKIND tells upper from lower.
  * @customfunction
- * @param params Omega in J/mol (regular solution), or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
+ * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [n] Which critical point, 1 = highest temperature (default 1).
- * @returns Critical temperature in kelvin.
+ * @returns Critical temperature (kelvin, or the card's temperature unit).
  */
 export function tCrit(params: any[][], n?: number): number {
   return cell(() => {
-    const { model } = system(params);
-    return criticalPoint(criticalPointsOf(model), ordinal(n, 'n')).T;
+    const sys = system(params);
+    return temperatureOut(sys, criticalPoint(criticalPointsOf(sys.model), ordinal(n, 'n')).T);
   });
 }
 
 /**
  * Composition of a critical (consolute) point, numbered as in TCRIT (highest temperature first).
  * @customfunction
- * @param params Omega in J/mol (regular solution), or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
+ * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [n] Which critical point, 1 = highest temperature (default 1).
  * @returns Mole fraction of B at the critical point.
  */
@@ -109,7 +126,7 @@ export function xCrit(params: any[][], n?: number): number {
  * Kind of a critical point, numbered as in TCRIT: "upper" (the gap exists just below it) or
  * "lower" (the gap exists just above it).
  * @customfunction
- * @param params Omega in J/mol (regular solution), or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
+ * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [n] Which critical point, 1 = highest temperature (default 1).
  * @returns "upper" or "lower".
  */
@@ -123,7 +140,7 @@ export function critKind(params: any[][], n?: number): string {
 /**
  * Number of critical points between 1 K and 20000 K.
  * @customfunction
- * @param params Omega in J/mol (regular solution), or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
+ * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @returns Number of critical points (0 when no gap closes in that range).
  */
 export function critCount(params: any[][]): number {
@@ -137,8 +154,8 @@ export function critCount(params: any[][]): number {
  * above it; with no gap at T, "low" for x0 up to 1/2 and "high" above.
  * @customfunction
  * @param x0 Overall mole fraction of B.
- * @param T Temperature in kelvin.
- * @param params Omega in J/mol (regular solution), or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
+ * @param T Temperature (kelvin, or the card's temperature unit).
+ * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [phase] "high" for the B-rich phase (default) or "low" for the A-rich phase.
  * @returns Mole fraction of the material in that phase, between 0 and 1.
  */
@@ -146,7 +163,8 @@ export function phaseFrac(x0: number, T: number, params: any[][], phase?: string
   return cell(() => {
     const x = fraction(x0, 'x0');
     const side = phaseSide(phase);
-    const { gaps } = equilibriumAt(system(params).model, kelvin(T));
+    const sys = system(params);
+    const { gaps } = equilibriumAt(sys.model, temperatureIn(sys, T));
     let high: number;
     const containing = gaps.find((g) => g.low.x <= x && x <= g.high.x);
     if (containing) high = leverFractions(x, containing).high;
@@ -166,14 +184,14 @@ export function phaseFrac(x0: number, T: number, params: any[][], phase?: string
  * below an upper critical point.
  * @customfunction
  * @param x0 Overall mole fraction of B.
- * @param params Omega in J/mol (regular solution), or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
- * @returns Temperature in kelvin.
+ * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
+ * @returns Temperature (kelvin, or the card's temperature unit).
  */
 export function tGap(x0: number, params: any[][]): number {
   return cell(() => {
     const x = fraction(x0, 'x0');
-    const { model } = system(params);
-    return gapTemperature(model, x, criticalPointsOf(model));
+    const sys = system(params);
+    return temperatureOut(sys, gapTemperature(sys.model, x, criticalPointsOf(sys.model)));
   });
 }
 
@@ -181,14 +199,15 @@ export function tGap(x0: number, params: any[][]): number {
  * Molar Gibbs energy of mixing g(x, T) relative to the pure components.
  * @customfunction
  * @param x Mole fraction of B.
- * @param T Temperature in kelvin.
- * @param params Omega in J/mol (regular solution), or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
- * @returns Gibbs energy of mixing in J/mol.
+ * @param T Temperature (kelvin, or the card's temperature unit).
+ * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
+ * @returns Gibbs energy of mixing (J/mol, or the card's energy unit).
  */
 export function gMix(x: number, T: number, params: any[][]): number {
   return cell(() => {
     const xB = fraction(x);
-    return system(params).model.at(kelvin(T)).g(xB, 1 - xB);
+    const sys = system(params);
+    return energyOut(sys, sys.model.at(temperatureIn(sys, T)).g(xB, 1 - xB));
   });
 }
 
@@ -198,26 +217,162 @@ export function gMix(x: number, T: number, params: any[][]): number {
  * A critical temperature inside the range replaces the nearest row, with the critical
  * composition in all four columns, so the dome closes. Where the gap does not exist, #N/A.
  * @customfunction
- * @param T1 First temperature in kelvin.
- * @param T2 Last temperature in kelvin.
+ * @param T1 First temperature (kelvin, or the card's temperature unit).
+ * @param T2 Last temperature (kelvin, or the card's temperature unit).
  * @param rows Number of rows (2 to 10000); write it as a number in the formula.
- * @param params Omega in J/mol (regular solution), or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
+ * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [gap] Which gap, numbered from low x at each temperature (default 1).
  * @returns rows x 5 table: T, binodal low, binodal high, spinodal low, spinodal high.
  */
 export function gapTable(T1: number, T2: number, rows: number, params: any[][], gap?: number): any[][] {
   return cell(() => {
-    const from = kelvin(T1, 'T1'), to = kelvin(T2, 'T2');
+    const sys = system(params);
+    const from = temperatureIn(sys, T1, 'T1'), to = temperatureIn(sys, T2, 'T2');
     const n = number(rows, 'rows');
     if (!(Number.isInteger(n) && n >= 2 && n <= 10000)) {
       throw new CellFailure('#NUM!', `rows = ${n}: give a whole number of rows from 2 to 10000`);
     }
     const which = ordinal(gap, 'gap');
-    const { model } = system(params);
+    const { model } = sys;
     const missing = new CellFailure('#N/A', `gap ${which} does not exist at this temperature`);
     const value = (v: number) => cellOf(Number.isNaN(v) ? missing : v);
     return coreGapTable(model, from, to, n, which, criticalPointsOf(model)).map((r) => [
-      r.T, value(r.low), value(r.high), value(r.spinLow), value(r.spinHigh),
+      temperatureOut(sys, r.T), value(r.low), value(r.high), value(r.spinLow), value(r.spinHigh),
     ]);
   });
+}
+
+/**
+ * Activity of a component at composition x and temperature T: ln a_i = mu_i / (R T), relative to
+ * the pure component in the same structure.
+ * @customfunction
+ * @param x Mole fraction of B.
+ * @param T Temperature (kelvin, or the card's temperature unit).
+ * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
+ * @param [of] "A" or "B" (or the card's component names); default "B".
+ * @returns Activity (dimensionless).
+ */
+export function activity(x: number, T: number, params: any[][], of?: string): number {
+  return cell(() => {
+    const { sys, xB, TK, which } = pointArgs(x, T, params, of);
+    const a = activities(sys.model.at(TK), xB);
+    return Math.exp(which === 'A' ? a.lnA : a.lnB);
+  });
+}
+
+/**
+ * Activity coefficient of a component: gamma_i = a_i / x_i.
+ * @customfunction
+ * @param x Mole fraction of B.
+ * @param T Temperature (kelvin, or the card's temperature unit).
+ * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
+ * @param [of] "A" or "B" (or the card's component names); default "B".
+ * @returns Activity coefficient (dimensionless).
+ */
+export function actCoef(x: number, T: number, params: any[][], of?: string): number {
+  return cell(() => {
+    const { sys, xB, TK, which } = pointArgs(x, T, params, of);
+    const a = activities(sys.model.at(TK), xB);
+    return Math.exp(which === 'A' ? a.lnGammaA : a.lnGammaB);
+  });
+}
+
+/**
+ * Chemical potential of a component relative to the pure component: mu_A = g - x g',
+ * mu_B = g + (1 - x) g'.
+ * @customfunction
+ * @param x Mole fraction of B.
+ * @param T Temperature (kelvin, or the card's temperature unit).
+ * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
+ * @param [of] "A" or "B" (or the card's component names); default "B".
+ * @returns Chemical potential (J/mol, or the card's energy unit).
+ */
+export function chemPot(x: number, T: number, params: any[][], of?: string): number {
+  return cell(() => {
+    const { sys, xB, TK, which } = pointArgs(x, T, params, of);
+    const a = activities(sys.model.at(TK), xB);
+    return energyOut(sys, which === 'A' ? a.muA : a.muB);
+  });
+}
+
+/**
+ * Excess Gibbs energy: g minus the ideal mixing term RT[x ln x + (1-x) ln(1-x)].
+ * @customfunction
+ * @param x Mole fraction of B.
+ * @param T Temperature (kelvin, or the card's temperature unit).
+ * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
+ * @returns Excess Gibbs energy (J/mol, or the card's energy unit).
+ */
+export function gExcess(x: number, T: number, params: any[][]): number {
+  return cell(() => {
+    const { sys, xB, TK } = pointArgs(x, T, params);
+    return energyOut(sys, excessGibbs(sys.model.at(TK), xB));
+  });
+}
+
+/**
+ * Driving force for a new phase to form from a homogeneous solution x0 (parallel tangent):
+ * the largest height of the tangent at x0 above g, per mole of the new phase. 0 when no new
+ * phase can lower the energy.
+ * @customfunction
+ * @param x0 Overall mole fraction of B of the homogeneous solution.
+ * @param T Temperature (kelvin, or the card's temperature unit).
+ * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
+ * @returns Driving force (J/mol, or the card's energy unit), >= 0.
+ */
+export function driveForce(x0: number, T: number, params: any[][]): number {
+  return cell(() => {
+    const { sys, xB, TK } = pointArgs(x0, T, params, undefined, 'x0');
+    return energyOut(sys, drivingForce(sys.model.at(TK), equilibriumAt(sys.model, TK), xB));
+  });
+}
+
+/**
+ * Decomposition gain: how far g of a homogeneous solution x0 lies above the lower convex
+ * envelope (the energy released by splitting into the two coexisting phases). 0 outside every gap.
+ * @customfunction
+ * @param x0 Overall mole fraction of B.
+ * @param T Temperature (kelvin, or the card's temperature unit).
+ * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
+ * @returns Decomposition gain (J/mol, or the card's energy unit), >= 0.
+ */
+export function decompGain(x0: number, T: number, params: any[][]): number {
+  return cell(() => {
+    const { sys, xB, TK } = pointArgs(x0, T, params, undefined, 'x0');
+    return energyOut(sys, decompositionGain(sys.model.at(TK), equilibriumAt(sys.model, TK), xB));
+  });
+}
+
+/**
+ * Reads a parameter card (or number, or range) and says in one line what it describes: model,
+ * parameters as read, units, and its highest critical point, so a mistyped card shows at once.
+ * @customfunction
+ * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
+ * @returns One-line summary.
+ */
+export function checkCard(params: any[][]): string {
+  return cell(() => {
+    const sys = system(params);
+    const names = sys.names.A !== 'A' || sys.names.B !== 'B' ? `; A = ${sys.names.A}, B = ${sys.names.B}` : '';
+    let critical: string;
+    try {
+      const points = criticalPointsOf(sys.model);
+      critical = points.length === 0
+        ? 'no critical point between 1 K and 20000 K'
+        : points.map((p) => `${p.kind} critical point ${round(temperatureOut(sys, p.T))} ${sys.temperature.name} at x = ${round(p.x)}`).join(', ');
+    } catch (e) {
+      critical = `critical points not found: ${e instanceof Error ? e.message : String(e)}`;
+    }
+    return `${sys.description}${names}; ${critical}`;
+  });
+}
+
+const round = (v: number) => Number(v.toPrecision(6));
+
+/** Common arguments of the point functions: system, composition, temperature in K, component. */
+function pointArgs(x: unknown, T: unknown, params: unknown, of?: unknown, xName = 'x') {
+  const sys = system(params);
+  const xB = fraction(x, xName);
+  const TK = temperatureIn(sys, T);
+  return { sys, xB, TK, which: component(of, sys) };
 }

@@ -7,7 +7,8 @@ const HtmlWebpackPlugin = require('html-webpack-plugin');
 const CopyWebpackPlugin = require('copy-webpack-plugin');
 
 const dist = path.resolve(__dirname, 'dist');
-const functionsEntry = './src/functions/functions.ts';
+const functionsEntry = './src/functions/index.ts';
+const functionSources = require('./src/functions/sources.js').map((f) => `./src/functions/${f}`);
 
 const typescriptRule = {
   test: /\.ts$/,
@@ -40,7 +41,7 @@ const web = (env, argv) => ({
   },
   plugins: [
     // functions.json is generated from the JSDoc @customfunction tags, never written by hand.
-    new CustomFunctionsMetadataPlugin({ output: 'functions.json', input: functionsEntry }),
+    new CustomFunctionsMetadataPlugin({ output: 'functions.json', input: functionSources }),
     new HtmlWebpackPlugin({
       filename: 'functions.html',
       template: './src/hosts/excel/functions.html',
@@ -58,7 +59,7 @@ const node = (env, argv) => ({
   ...common(argv),
   name: 'node',
   target: 'node20',
-  entry: { cli: './src/hosts/cli.ts' },
+  entry: { cli: './src/hosts/cli.ts', bench: './bench/run.ts' },
   output: {
     path: path.join(dist, 'node'),
     filename: '[name].js',

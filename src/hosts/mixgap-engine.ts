@@ -3,7 +3,7 @@
  * uses, described by the functions.json that the build generated from their JSDoc tags.
  */
 import type { ConfigParams, HyperFormula } from 'hyperformula';
-import * as fns from '../functions/functions';
+import * as fns from '../functions/index';
 import { spillShape } from '../functions/shapes';
 import { buildEngine } from './engine';
 import type { CustomFunctionsMetadata } from './engine';

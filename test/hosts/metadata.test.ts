@@ -1,18 +1,19 @@
 /**
  * The real cell functions as the hosts see them: the metadata generated from the JSDoc tags of
- * src/functions/functions.ts, the exports the engine looks up by id, and the engine built from both.
+ * the files listed in src/functions/sources.js, the exports the engine looks up by id, and the engine built from both.
  */
 import { existsSync, readFileSync } from 'fs';
 import path from 'path';
 import { beforeAll, describe, expect, test } from 'vitest';
 import { generateCustomFunctionsMetadata } from 'custom-functions-metadata';
 import type { IGenerateResult } from 'custom-functions-metadata';
-import * as fns from '../../src/functions/functions';
+import * as fns from '../../src/functions/index';
 import { buildMixgapEngine } from '../../src/hosts/mixgap-engine';
 import type { CustomFunctionsMetadata } from '../../src/hosts/engine';
 
 const root = path.join(__dirname, '..', '..');
-const source = path.join(root, 'src', 'functions', 'functions.ts');
+// eslint-disable-next-line @typescript-eslint/no-require-imports
+const source: string[] = require('../../src/functions/sources.js').map((f: string) => path.join(root, 'src', 'functions', f));
 let generated: IGenerateResult;
 let metadata: CustomFunctionsMetadata;
 
@@ -21,7 +22,7 @@ beforeAll(async () => {
   metadata = JSON.parse(generated.metadataJson);
 });
 
-describe('functions.ts metadata', () => {
+describe('cell function metadata', () => {
   test('the generator reports no errors', () => {
     expect(generated.errors).toEqual([]);
     expect(metadata.functions.length).toBeGreaterThan(0);

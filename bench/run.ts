@@ -1,0 +1,93 @@
+/**
+ * Mixgap benchmark: `npm run bench`. Figures are measured on the machine that runs it; the
+ * targets come from the issues. Times are medians over batches (one batch = many calls, timed
+ * together, so the clock's resolution does not matter); memory is the process's resident size.
+ */
+import { phaseMap } from '../src/core/binodal';
+import { criticalPoints } from '../src/core/critical';
+import { forgetSolves } from '../src/core/equilibrium';
+import { gapTable } from '../src/core/gapTable';
+import type { BinaryModel } from '../src/core/model';
+import { floryHuggins } from '../src/core/models/floryHuggins';
+import { nrtl } from '../src/core/models/nrtl';
+import { redlichKister } from '../src/core/models/redlichKister';
+import * as cells from '../src/functions/functions';
+
+const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)];
+const fmt = (us: number) => (us < 1000 ? `${us.toFixed(2)} µs` : `${(us / 1000).toFixed(2)} ms`);
+
+/** Median time per call (µs) of `call(i)` over `batches` batches of `size` calls with distinct i. */
+function perCall(call: (i: number) => unknown, batches = 40, size = 250): number {
+  let i = 0;
+  for (let w = 0; w < size * 5; w++) call(i++); // warm-up (JIT)
+  const times: number[] = [];
+  for (let b = 0; b < batches; b++) {
+    const t0 = performance.now();
+    for (let k = 0; k < size; k++) call(i++);
+    times.push(((performance.now() - t0) * 1000) / size);
+  }
+  return median(times);
+}
+
+/** Median time (µs) of a whole task, run `runs` times. */
+function whole(task: () => unknown, runs = 25): number {
+  for (let w = 0; w < 3; w++) task();
+  const times: number[] = [];
+  for (let r = 0; r < runs; r++) {
+    const t0 = performance.now();
+    task();
+    times.push((performance.now() - t0) * 1000);
+  }
+  return median(times);
+}
+
+const rows: Array<[string, string, string]> = [];
+const report = (what: string, value: string, target = '') => {
+  rows.push([what, value, target]);
+  console.log(`${what.padEnd(66)} ${value.padStart(12)}  ${target}`);
+};
+
+// Invented test systems (benchmark inputs only).
+const rk3 = redlichKister([{ a: 20000, b: -2, c: 0 }, { a: 3000, b: 0, c: 0 }, { a: 1500, b: 0, c: 0 }]);
+const rk3Params = [[20000, -2, 0], [3000, 0, 0], [1500, 0, 0]];
+const fh = floryHuggins({ NA: 200, NB: 500, A: -0.002, B: 3.5 });
+const nr = nrtl({ a12: 0, b12: 800, a21: 0, b21: 1200, alpha: 0.2 });
+const models: Array<[string, BinaryModel, number, number]> = [
+  ['Redlich–Kister, 3 terms', rk3, 500, 900],
+  ['Flory–Huggins, N_A = 200, N_B = 500', fh, 300, 380],
+  ['NRTL, alpha = 0.2', nr, 300, 700],
+];
+
+console.log(`Mixgap benchmark, node ${process.version}, ${new Date().toISOString()}\n`);
+for (const [name, model, T1, T2] of models) {
+  const span = T2 - T1;
+  report(`binodal solve at a new temperature, ${name}`, fmt(perCall((i) => phaseMap(model.at(T1 + ((i * 0.6180339887) % 1) * span)))), name.startsWith('Redlich') ? 'target < 30 µs' : '');
+  report(`same, continuing from a temperature 0.1 K away, ${name}`, fmt(perCall((i) => phaseMap(model.at(T1 + 0.1 * ((i % 1000) + 1)), phaseMap(model.at(T1 + 0.1 * (i % 1000)))) )));
+}
+for (const [name, model, T1, T2] of models) {
+  const crit = criticalPoints(model);
+  report(`1000-temperature gap table (core), ${name}`, fmt(whole(() => gapTable(model, T1, T2, 1000, 1, crit))), name.startsWith('Redlich') ? 'target < 3 ms' : '');
+}
+report('1000-temperature GAPTABLE cell function (critical points cached)', fmt(whole(() => cells.gapTable(500, 900, 1000, rk3Params))));
+for (const [name, model] of models) report(`critical points 1 K to 20000 K (once per system), ${name}`, fmt(whole(() => criticalPoints(model), 9)));
+report('GAPLOW cell function, new temperature each call (cache misses)', fmt(perCall((i) => cells.gapLow(500 + ((i * 0.6180339887) % 1) * 400, rk3Params))));
+report('GAPHIGH after GAPLOW of the same row (cache hit)', fmt(perCall((i) => cells.gapHigh(600, rk3Params))));
+report('TGAP cell function (critical points cached)', fmt(perCall((i) => cells.tGap(0.05 + ((i * 0.6180339887) % 1) * 0.5, rk3Params), 10, 10)));
+
+// Memory: 1e6 distinct calls through the cell function (every one a cache miss).
+forgetSolves();
+const gc = (globalThis as { gc?: () => void }).gc;
+gc?.();
+const before = process.memoryUsage().rss;
+let peak = before;
+const t0 = performance.now();
+for (let i = 0; i < 1_000_000; i++) {
+  cells.gapLow(500 + i * 0.0004, rk3Params);
+  if (i % 20000 === 0) peak = Math.max(peak, process.memoryUsage().rss);
+}
+const elapsed = performance.now() - t0;
+gc?.();
+peak = Math.max(peak, process.memoryUsage().rss);
+report('1e6 distinct GAPLOW calls: peak resident memory', `${(peak / 2 ** 20).toFixed(1)} MB`, 'target < 100 MB');
+report('1e6 distinct GAPLOW calls: growth over the start', `${((peak - before) / 2 ** 20).toFixed(1)} MB`);
+report('1e6 distinct GAPLOW calls: time per call', fmt((elapsed * 1000) / 1e6));

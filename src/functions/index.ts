@@ -1,0 +1,2 @@
+/** Every cell function, for the hosts (each file is listed in ./sources.js for the metadata). */
+export * from './functions';

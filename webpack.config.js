@@ -66,12 +66,19 @@ const node = (env, argv) => ({
     library: { type: 'commonjs2' },
     clean: true,
   },
+  module: {
+    rules: [typescriptRule],
+    // createRequire(__filename).resolve(...) runs as written (it finds the packaged fonts at run time).
+    parser: { javascript: { createRequire: false } },
+  },
   // __dirname stays the bundle's own folder, so the CLI finds ../functions.json beside it.
   node: { __dirname: false, __filename: false },
   // Dependencies stay in node_modules and are required at run time.
   externalsPresets: { node: true },
   externals: [({ request }, callback) => {
-    if (/^[a-z@][^:]*$/i.test(request) && !request.startsWith('.')) {
+    // mathjs is bundled (tree-shaken to the unit system we use, as in the web bundle): required
+    // whole from node_modules it builds every function it has, about 70 MB at start-up.
+    if (/^[a-z@][^:]*$/i.test(request) && !request.startsWith('.') && !request.startsWith('mathjs')) {
       return callback(null, `commonjs ${request}`);
     }
     return callback();

@@ -1,11 +1,15 @@
 /**
  * The `mixgap` command. `mixgap eval` evaluates formulas exactly as typed into a cell, with the
- * embedded engine and the same functions as the Excel add-in; `mixgap functions` lists them.
+ * embedded engine and the same functions as the Excel add-in; `mixgap functions` lists them;
+ * `mixgap calc` computes a whole .xlsx workbook; `mixgap diagram` draws a phase diagram of a card.
  * Bundled to dist/node/cli.js, it reads dist/functions.json (beside the bundle's folder) at run time.
  */
-import { readFileSync } from 'fs';
+import { existsSync, readFileSync, statSync, writeFileSync } from 'fs';
 import path from 'path';
-import { Command, CommanderError } from 'commander';
+import { Command, CommanderError, InvalidArgumentError } from 'commander';
+import { calcWorkbook, formatSummary, writeAtomically } from './calc';
+import { cardFromCsv, cardFromXlsx, evaluateMarks } from './card-source';
+import { diagramData, diagramSpec, renderPng, renderSvg } from './diagram';
 import type { CustomFunctionsMetadata } from './engine';
 import { NAMESPACE } from './engine';
 import { evaluateFormulas } from './evaluate';
@@ -62,6 +66,63 @@ export function formatPlain(r: FormulaResult): string {
   return plainCell(r, false);
 }
 
+const CALC_HELP = `
+Reads WORKBOOK (.xlsx), evaluates every formula of every sheet with the embedded engine (Mixgap's
+functions and the built-in spreadsheet functions; references across sheets, ranges, defined names)
+and writes a copy in which every formula keeps its text and carries its computed value, so the copy
+opens with numbers in place in any spreadsheet program. WORKBOOK itself is never modified.
+
+  A spilled result (GAPTABLE, SEQUENCE, ...) fills the cells it covers with plain values; its first
+  cell keeps the formula, stored as an array formula over the covered range.
+  An error is stored as an error value; the summary lists the cells and what to fix.
+  #SPILL!, #CYCLE! and #ERROR! (a formula the engine cannot read) are stored as #REF!, #REF!, #NAME?.
+
+Output: -o FILE.xlsx, or -o FOLDER (created if needed) for FOLDER/<name>.computed.xlsx;
+default <name>.computed.xlsx beside WORKBOOK. The copy is written to a temporary file in the same
+folder and renamed into place, so a run that fails leaves no partial file.
+Charts, pictures of charts, pivot tables and macros of WORKBOOK are not carried into the copy.
+
+Exit status: 0 when the copy was written (even if some cells show errors), 1 otherwise.`;
+
+const DIAGRAM_HELP = `
+CARD is a parameter card: a .csv file of key,value rows (e.g. "model,regular" and "omega,21"),
+or a range of an .xlsx workbook (--range A1:B8 with --sheet NAME, or --range NAME!A1:B8); the
+workbook is evaluated first, so the card and the marks may be formulas.
+Every point comes from the cell functions (GAPTABLE, TCRIT, XCRIT, CRITKIND, CHECKCARD).
+
+Temperatures (--tmin, --tmax, the axis) are in the card's temperature unit, or in --temperature-unit.
+Default range: from half the lowest critical temperature (in kelvin) to 6 % above the highest.
+
+Writes OUT.svg and OUT.png: -o OUT (a trailing .svg or .png is dropped), or -o FOLDER/ for
+FOLDER/<name>.diagram.*; default <name>.diagram.svg and .png beside CARD.
+
+Example:
+  mixgap diagram assets/demo.xlsx --range Card!A1:B8 --mark 'grade L=Ageing!C4' -o out/demo/`;
+
+function positiveInteger(text: string): number {
+  const n = Number(text);
+  if (!Number.isInteger(n) || n < 2) throw new InvalidArgumentError('give a whole number of 2 or more');
+  return n;
+}
+
+function finiteNumber(text: string): number {
+  const n = Number(text);
+  if (text.trim() === '' || !Number.isFinite(n)) throw new InvalidArgumentError('give a number');
+  return n;
+}
+
+function collect(value: string, previous: string[]): string[] {
+  return [...previous, value];
+}
+
+/** OUT of `mixgap diagram`, without extension. */
+function diagramBase(card: string, output?: string): string {
+  const name = `${path.basename(card).replace(/\.(csv|xlsx)$/i, '')}.diagram`;
+  if (!output) return path.join(path.dirname(card), name);
+  const isFolder = /[\\/]$/.test(output) || (existsSync(output) && statSync(output).isDirectory());
+  return isFolder ? path.join(output, name) : output.replace(/\.(svg|png)$/i, '');
+}
+
 async function readStdin(): Promise<string> {
   const chunks: Buffer[] = [];
   for await (const chunk of process.stdin) chunks.push(chunk as Buffer);
@@ -104,12 +165,72 @@ export async function main(argv: string[]): Promise<number> {
       }
     });
 
+  program
+    .command('calc')
+    .description('evaluate every formula of an .xlsx workbook and write a copy with the computed values')
+    .argument('<workbook>', 'the .xlsx file to evaluate (never modified)')
+    .option('-o, --output <path>', 'the copy: a .xlsx file, or a folder for <name>.computed.xlsx')
+    .option('-q, --quiet', 'no progress bar and no summary')
+    .addHelpText('after', CALC_HELP)
+    .action(async (workbook: string, opts: { output?: string; quiet?: boolean }) => {
+      const result = await calcWorkbook(workbook, loadMetadata(), {
+        output: opts.output,
+        progressStream: opts.quiet ? undefined : process.stderr,
+      });
+      if (!opts.quiet) process.stdout.write(formatSummary(result));
+    });
+
+  program
+    .command('diagram')
+    .description('draw the phase diagram (binodal, spinodal, critical points) of a parameter card as SVG and PNG')
+    .argument('<card>', 'a .csv file of key,value rows, or an .xlsx workbook with --range')
+    .option('--sheet <name>', 'sheet of the card in an .xlsx workbook (default: the first)')
+    .option('--range <range>', 'range of the card in an .xlsx workbook, e.g. A1:B8 or Card!A1:B8')
+    .option('--tmin <T>', 'lowest temperature shown (card unit)', finiteNumber)
+    .option('--tmax <T>', 'highest temperature shown (card unit)', finiteNumber)
+    .option('--temperature-unit <unit>', 'draw in K or °C instead of the card\'s unit')
+    .option('--rows <n>', 'temperatures computed per gap (GAPTABLE rows, default 201)', positiveInteger)
+    .option('--mark <x>', 'an overall composition to mark: a number, a formula such as Ageing!C4, or LABEL=... (repeatable)', collect, [])
+    .option('--title <text>', 'title of the picture')
+    .option('-o, --output <path>', 'OUT for OUT.svg and OUT.png, or a folder')
+    .addHelpText('after', DIAGRAM_HELP)
+    .action(async (card: string, opts: {
+      sheet?: string; range?: string; tmin?: number; tmax?: number; temperatureUnit?: string;
+      rows?: number; mark: string[]; title?: string; output?: string;
+    }) => {
+      const metadata = loadMetadata();
+      if (!existsSync(card)) throw new Error(`no such file: ${card}`);
+      const isXlsx = /\.xlsx$/i.test(card);
+      if (isXlsx && !opts.range) throw new Error('an .xlsx card needs --range (e.g. --range Card!A1:B8)');
+      const source = isXlsx ? await cardFromXlsx(card, metadata, opts.range!, opts.sheet) : cardFromCsv(card, metadata);
+      let marks;
+      try {
+        marks = evaluateMarks(source.engine, opts.mark);
+      } finally {
+        source.engine.destroy();
+      }
+      const data = diagramData(metadata, source.grid, {
+        tmin: opts.tmin, tmax: opts.tmax, rows: opts.rows, temperatureUnit: opts.temperatureUnit, marks, title: opts.title,
+      });
+      const svg = await renderSvg(diagramSpec(data));
+      const base = diagramBase(card, opts.output);
+      await writeAtomically(`${base}.svg`, async (tmp) => writeFileSync(tmp, svg));
+      await writeAtomically(`${base}.png`, async (tmp) => writeFileSync(tmp, renderPng(svg)));
+      process.stdout.write(`mixgap diagram: ${source.where}\n  ${data.card}\n  ${data.tmin} to ${data.tmax} ${data.temperatureUnit}; ` +
+        `${data.critical.length} critical point${data.critical.length === 1 ? '' : 's'} shown; ${data.marks.length} marked composition${data.marks.length === 1 ? '' : 's'}\n` +
+        `  ${base}.svg\n  ${base}.png\n`);
+    });
+
   try {
     await program.parseAsync(argv);
   } catch (e) {
     if (e instanceof CommanderError) {
       // Help and version exit 0; unknown options, missing commands and the like are usage errors.
       status = e.exitCode === 0 ? 0 : 1;
+    } else if (e instanceof Error && !(e instanceof TypeError || e instanceof ReferenceError)) {
+      // A file that cannot be read or written, a card that cannot be drawn: say what, without a trace.
+      process.stderr.write(`mixgap: ${e.message}\n`);
+      status = 1;
     } else {
       throw e;
     }

@@ -1,0 +1,170 @@
+// Writes assets/demo.xlsx, the demo workbook (`npm run make-demo`; commit the result).
+//
+// The scenario is invented from start to end: an imaginary alloy of two imaginary metals,
+// Avarite (A) and Bexium (B), aged to precipitate a Bexium-rich phase, with made-up parameters,
+// prices and specification. None of the numbers describes a real material or process.
+import path from 'path';
+import { fileURLToPath } from 'url';
+import ExcelJS from 'exceljs';
+
+const here = path.dirname(fileURLToPath(import.meta.url));
+const target = path.join(here, 'demo.xlsx');
+
+const wb = new ExcelJS.Workbook();
+wb.creator = 'Mixgap demo';
+// Fixed dates keep the file the same from run to run.
+wb.created = new Date(Date.UTC(2025, 0, 1));
+wb.modified = new Date(Date.UTC(2025, 0, 1));
+
+const bold = { bold: true };
+const header = (row) => {
+  row.font = bold;
+  row.alignment = { wrapText: true, vertical: 'top' };
+};
+const CARD = 'Card!$A$1:$B$7';
+
+// --- About -------------------------------------------------------------------------------------
+const about = wb.addWorksheet('About');
+about.getColumn(1).width = 110;
+[
+  ['Mixgap demo workbook: ageing an invented alloy', bold],
+  ['Everything here is invented for the demo: the metals Avarite (A) and Bexium (B), their solution parameters, the prices and the specification.'],
+  ['No number in this workbook describes a real material, furnace or part.'],
+  [''],
+  ['Card: the parameter card (two columns, key | value) every formula reads, as the range Card!$A$1:$B$7.'],
+  ['Grid: binodal and spinodal compositions on a temperature grid (GAPLOW, GAPHIGH, SPINLOW, SPINHIGH, GAPCOUNT), critical point (TCRIT, XCRIT, CRITKIND).'],
+  ['     Above the critical temperature there is no gap: those cells show #N/A on purpose.'],
+  ['Table: one GAPTABLE formula that spills a 61-row table (T, binodal low/high, spinodal low/high).'],
+  ['Ageing: two grades aged at candidate temperatures: precipitate fraction (PHASEFRAC, lever rule), ageing time, furnace cost per part, cheapest temperature that meets the specification.'],
+  [''],
+  ['Compute it without a spreadsheet program:  npx mixgap calc assets/demo.xlsx -o out/demo/'],
+  ['Open it in Excel with the Mixgap add-in loaded and the same formulas recalculate there.'],
+  [''],
+  ['Caution', bold],
+  ['Equilibrium phase fractions from a solution model are an estimate, not a heat-treatment procedure. Real ageing depends on kinetics, section size,'],
+  ['furnace uniformity and the actual material. Heat-treatment schedules for parts are set and verified under the applicable codes, standards and'],
+  ['qualified, licensed practice where you work; measure the parts.'],
+].forEach(([text, font], i) => {
+  const c = about.getCell(i + 1, 1);
+  c.value = text;
+  if (font) c.font = font;
+});
+
+// --- Card --------------------------------------------------------------------------------------
+const card = wb.addWorksheet('Card');
+card.getColumn(1).width = 14;
+card.getColumn(2).width = 14;
+card.getColumn(4).width = 70;
+const cardRows = [
+  ['model', 'redlich-kister', 'Redlich–Kister description of the Gibbs energy of mixing'],
+  ['L0', 18, 'L0 (kJ/mol, invented)'],
+  ['L1', 2.2, 'L1 (kJ/mol, invented): makes the gap lean towards Avarite'],
+  ['energy', 'kJ/mol', 'unit of L0 and L1'],
+  ['temperature', '°C', 'unit of every temperature the functions read and return'],
+  ['name A', 'Avarite', 'component A (invented metal)'],
+  ['name B', 'Bexium', 'component B (invented metal); compositions are mole fractions of Bexium'],
+];
+cardRows.forEach(([key, value, note], i) => {
+  card.getCell(i + 1, 1).value = key;
+  card.getCell(i + 1, 2).value = value;
+  card.getCell(i + 1, 4).value = note;
+});
+card.getCell('A9').value = 'What the functions read from the card (CHECKCARD):';
+card.getCell('A9').font = bold;
+card.getCell('A10').value = { formula: `MIXGAP.CHECKCARD(${CARD})` };
+
+// --- Grid --------------------------------------------------------------------------------------
+const grid = wb.addWorksheet('Grid');
+grid.columns = [
+  { header: 'T (°C)', width: 9 },
+  { header: 'binodal low (x B)', width: 12, style: { numFmt: '0.0000' } },
+  { header: 'binodal high (x B)', width: 12, style: { numFmt: '0.0000' } },
+  { header: 'spinodal low (x B)', width: 12, style: { numFmt: '0.0000' } },
+  { header: 'spinodal high (x B)', width: 12, style: { numFmt: '0.0000' } },
+  { header: 'gaps', width: 6 },
+  { header: '', width: 3 },
+  { header: 'critical point', width: 20 },
+  { header: '', width: 12 },
+];
+header(grid.getRow(1));
+const first = 300, step = 25, count = 25; // 300 to 900 °C
+for (let i = 0; i < count; i++) {
+  const r = i + 2;
+  grid.getCell(r, 1).value = i === 0 ? first : { formula: `A${r - 1}+${step}` };
+  grid.getCell(r, 2).value = { formula: `MIXGAP.GAPLOW(A${r}, ${CARD})` };
+  grid.getCell(r, 3).value = { formula: `MIXGAP.GAPHIGH(A${r}, ${CARD})` };
+  grid.getCell(r, 4).value = { formula: `MIXGAP.SPINLOW(A${r}, ${CARD})` };
+  grid.getCell(r, 5).value = { formula: `MIXGAP.SPINHIGH(A${r}, ${CARD})` };
+  grid.getCell(r, 6).value = { formula: `MIXGAP.GAPCOUNT(A${r}, ${CARD})` };
+}
+grid.getCell('H2').value = 'temperature (°C)';
+grid.getCell('I2').value = { formula: `MIXGAP.TCRIT(${CARD})` };
+grid.getCell('I2').numFmt = '0.0';
+grid.getCell('H3').value = 'composition (x B)';
+grid.getCell('I3').value = { formula: `MIXGAP.XCRIT(${CARD})` };
+grid.getCell('I3').numFmt = '0.0000';
+grid.getCell('H4').value = 'kind';
+grid.getCell('I4').value = { formula: `MIXGAP.CRITKIND(${CARD})` };
+grid.views = [{ state: 'frozen', ySplit: 1 }];
+
+// --- Table -------------------------------------------------------------------------------------
+const table = wb.addWorksheet('Table');
+table.columns = ['T (°C)', 'binodal low', 'binodal high', 'spinodal low', 'spinodal high'].map((h, i) => ({
+  header: h, width: 13, style: i ? { numFmt: '0.0000' } : { numFmt: '0.0' },
+}));
+header(table.getRow(1));
+// The number of rows (61) is written in the formula: the engine sizes a spilled table from the formula text.
+table.getCell('A2').value = { formula: `MIXGAP.GAPTABLE(300, 900, 61, ${CARD})` };
+table.getCell('G1').value = 'One formula in A2 fills A2:E62. #N/A: no gap at that temperature.';
+
+// --- Ageing ------------------------------------------------------------------------------------
+const ageing = wb.addWorksheet('Ageing');
+ageing.getColumn(1).width = 44;
+for (const c of [2, 3, 4, 5, 6, 7]) ageing.getColumn(c).width = 15;
+ageing.getCell('A1').value = 'Ageing two grades of the invented Avarite–Bexium alloy (all numbers invented)';
+ageing.getCell('A1').font = bold;
+const inputs = [
+  ['A3', 'grade', 'B3', 'x0 (mole fraction of Bexium)'],
+  ['A4', 'grade L', 'B4', 0.12],
+  ['A5', 'grade H', 'B5', 0.2],
+  ['A6', 'furnace cost per part and hour at 500 °C (€)', 'B6', 0.35],
+  ['A7', 'material and handling per part (€)', 'B7', 4.2],
+  ['A8', 'specification: precipitate fraction at least', 'B8', 0.05],
+];
+for (const [a, label, b, value] of inputs) {
+  ageing.getCell(a).value = label;
+  ageing.getCell(b).value = value;
+}
+ageing.getRow(3).font = bold;
+const first10 = 11;
+const temps = [400, 450, 500, 550, 600, 650, 700, 750];
+[
+  'ageing T (°C)', 'precipitate fraction, grade L', 'precipitate fraction, grade H', 'ageing time (h)',
+  'cost per part, grade L (€)', 'grade L meets spec', 'grade H meets spec',
+].forEach((h, i) => { ageing.getCell(10, i + 1).value = h; });
+header(ageing.getRow(10));
+ageing.getCell('A9').value = 'Ageing time: invented rule 40 h × exp(−(T − 400 °C)/90 °C). Furnace cost grows with absolute temperature (invented).';
+temps.forEach((T, i) => {
+  const r = first10 + i;
+  ageing.getCell(r, 1).value = T;
+  // PHASEFRAC: lever-rule fraction of the Bexium-rich ("high") phase, i.e. the precipitate.
+  ageing.getCell(r, 2).value = { formula: `MIXGAP.PHASEFRAC($B$4, A${r}, ${CARD}, "high")` };
+  ageing.getCell(r, 3).value = { formula: `MIXGAP.PHASEFRAC($B$5, A${r}, ${CARD}, "high")` };
+  ageing.getCell(r, 4).value = { formula: `ROUND(40*EXP(-(A${r}-400)/90), 1)` };
+  ageing.getCell(r, 5).value = { formula: `$B$7+D${r}*$B$6*(A${r}+273.15)/(500+273.15)` };
+  ageing.getCell(r, 6).value = { formula: `IF(B${r}>=$B$8, "yes", "no")` };
+  ageing.getCell(r, 7).value = { formula: `IF(C${r}>=$B$8, "yes", "no")` };
+  for (const c of [2, 3]) ageing.getCell(r, c).numFmt = '0.0000';
+  ageing.getCell(r, 5).numFmt = '0.00';
+});
+const last = first10 + temps.length - 1;
+ageing.getCell('A20').value = 'cheapest cost per part meeting the spec, grade L (€)';
+ageing.getCell('B20').value = { formula: `MINIFS(E${first10}:E${last}, F${first10}:F${last}, "yes")` };
+ageing.getCell('B20').numFmt = '0.00';
+ageing.getCell('A21').value = 'at ageing temperature (°C)';
+ageing.getCell('B21').value = { formula: `INDEX(A${first10}:A${last}, MATCH(B20, E${first10}:E${last}, 0))` };
+ageing.getCell('A23').value = 'Caution: an equilibrium estimate from invented data, not a heat-treatment procedure; see the About sheet.';
+ageing.getCell('A23').font = { italic: true };
+
+await wb.xlsx.writeFile(target);
+console.log(`wrote ${path.relative(process.cwd(), target)}`);

@@ -1,10 +1,14 @@
 // Two builds from one source tree:
-//  - web:  the Excel custom-functions runtime page (dist/functions.{js,html,json} + dist/assets)
+//  - web:  the Excel custom-functions runtime page (dist/functions.{js,html,json} + dist/assets
+//          + dist/help/<ID>.html); `npm start` serves it at https://localhost:3000 (devServer below)
 //  - node: the `mixgap` command (dist/node/cli.js), which reads dist/functions.json at run time.
+const fs = require('fs');
+const os = require('os');
 const path = require('path');
 const CustomFunctionsMetadataPlugin = require('custom-functions-metadata-plugin');
 const HtmlWebpackPlugin = require('html-webpack-plugin');
 const CopyWebpackPlugin = require('copy-webpack-plugin');
+const { HelpPagesPlugin } = require('./src/hosts/excel/help-pages.js');
 
 const dist = path.resolve(__dirname, 'dist');
 const functionsEntry = './src/functions/index.ts';
@@ -52,8 +56,41 @@ const web = (env, argv) => ({
     new CopyWebpackPlugin({
       patterns: [{ from: 'assets/*.png', to: 'assets/[name][ext]' }],
     }),
+    // help/<ID>.html for every function of functions.json, and help/index.html.
+    new HelpPagesPlugin(),
   ],
+  // Only `webpack serve` (npm start) reads this, and with it the development certificates.
+  ...(process.env.WEBPACK_SERVE ? { devServer: devServer() } : {}),
 });
+
+/**
+ * `npm start`: dist/ at https://localhost:3000, the origin every URL of manifest.xml names, with the
+ * certificates office-addin-dev-certs made in ~/.office-addin-dev-certs (read here, not through the
+ * tool's helper, whose trust step needs sudo). The build is also written to dist/.
+ */
+function devServer() {
+  const folder = path.join(os.homedir(), '.office-addin-dev-certs');
+  const read = (name) => {
+    const file = path.join(folder, name);
+    if (!fs.existsSync(file)) {
+      throw new Error(`${file} is missing: run \`npx office-addin-dev-certs install\` (npm start does it first)`);
+    }
+    return fs.readFileSync(file);
+  };
+  return {
+    host: 'localhost',
+    port: 3000,
+    server: { type: 'https', options: { ca: read('ca.crt'), cert: read('localhost.crt'), key: read('localhost.key') } },
+    headers: { 'Access-Control-Allow-Origin': '*' },
+    static: false,
+    devMiddleware: { writeToDisk: true },
+    // The custom-functions runtime has no use for live reloading; no client script is injected.
+    hot: false,
+    liveReload: false,
+    client: false,
+    webSocketServer: false,
+  };
+}
 
 const node = (env, argv) => ({
   ...common(argv),

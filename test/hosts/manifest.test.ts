@@ -1,7 +1,8 @@
 /**
  * Offline checks of manifest.xml (the online validator is out of reach here): it parses, every
  * resid it uses is defined, every URL it names is a file the build puts in dist/, and the namespace
- * is the one the embedded engine uses.
+ * is the one the embedded engine uses. Also the help pages: every function of functions.json has
+ * one in dist/help/, and every helpUrl of functions.json names a file of the build.
  */
 import { existsSync, readFileSync } from 'fs';
 import path from 'path';
@@ -70,5 +71,38 @@ describe('manifest.xml', () => {
     expect(url(resid('Script'))).toBe(`${DEV_ORIGIN}functions.js`);
     expect(url(resid('Page'))).toBe(`${DEV_ORIGIN}functions.html`);
     expect(url(resid('Metadata'))).toBe(`${DEV_ORIGIN}functions.json`);
+  });
+});
+
+describe('help pages', () => {
+  const metadata = JSON.parse(readFileSync(path.join(root, 'dist', 'functions.json'), 'utf8')) as {
+    functions: Array<{ id: string; name: string; helpUrl?: string; parameters: Array<{ name: string; description?: string }> }>;
+  };
+
+  test('every function has dist/help/<ID>.html naming it and describing each of its parameters', () => {
+    expect(metadata.functions.length).toBeGreaterThan(0);
+    for (const f of metadata.functions) {
+      const file = path.join(root, 'dist', 'help', `${f.id.toUpperCase()}.html`);
+      expect(existsSync(file), file).toBe(true);
+      const html = readFileSync(file, 'utf8');
+      expect(html).toContain(`${NAMESPACE}.${f.name}`);
+      for (const p of f.parameters) {
+        expect(html, `${f.id}: parameter ${p.name}`).toContain(`<code>${p.name}</code>`);
+        // Descriptions are HTML-escaped on the page; compare with the same escaping.
+        const escaped = (p.description ?? '').replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
+        expect(html, `${f.id}: description of ${p.name}`).toContain(escaped);
+      }
+    }
+    expect(existsSync(path.join(root, 'dist', 'help', 'index.html'))).toBe(true);
+  });
+
+  test('every helpUrl in functions.json names a file of the build', () => {
+    const withHelp = metadata.functions.filter((f) => f.helpUrl !== undefined);
+    for (const f of withHelp) {
+      const url = f.helpUrl!;
+      expect(url.startsWith(DEV_ORIGIN), `${f.id}: ${url}`).toBe(true);
+      const file = path.join(root, 'dist', decodeURIComponent(url.slice(DEV_ORIGIN.length).split(/[?#]/)[0]));
+      expect(existsSync(file), `${f.id}: ${url} -> ${file}`).toBe(true);
+    }
   });
 });

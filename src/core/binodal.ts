@@ -1,4 +1,4 @@
-import { curvatureMap } from './curvature';
+import { curvature, curvatureMap, curvatureSlope } from './curvature';
 import { fail } from './errors';
 import type { Isotherm, Point } from './model';
 import { muA, pointAt } from './model';
@@ -105,7 +105,8 @@ function tangentNewton(iso: Isotherm, start: Gap, s1: number, s2: number): Gap |
     if (!Number.isFinite(du1) || !Number.isFinite(du2)) return undefined;
     u1 += du1;
     u2 += du2;
-    if (Math.abs(du1) <= 4e-16 * Math.max(1, Math.abs(u1)) && Math.abs(du2) <= 4e-16 * Math.max(1, Math.abs(u2))) {
+    // Newton converges quadratically here: after a step below 1e-12 the error is below 1e-20.
+    if (Math.abs(du1) <= 1e-12 * Math.max(1, Math.abs(u1)) && Math.abs(du2) <= 1e-12 * Math.max(1, Math.abs(u2))) {
       if (!(u1 < s1 && u2 > s2)) return undefined;
       const low = pointAt(u1), high = pointAt(u2);
       return { low, high, slope: iso.dg(low.x, low.y) };
@@ -196,11 +197,13 @@ export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
   let u = Math.min(Math.max(br.guess, lo), hi);
   if (!Number.isFinite(u)) u = 0;
   for (let iter = 0; iter < 300; iter++) {
-    const p = pointAt(u);
-    const f = iso.dg(p.x, p.y) - m;
+    // x and y = 1 - x from u, as in pointAt (inlined: this loop runs for every solve)
+    const e = Math.exp(-Math.abs(u));
+    const x = u < 0 ? e / (1 + e) : 1 / (1 + e), y = u < 0 ? 1 / (1 + e) : e / (1 + e);
+    const f = iso.dg(x, y) - m;
     if (f === 0) { br.guess = u; return u; }
     if (f < 0) lo = u; else hi = u;
-    const slope = p.x * p.y * iso.d2g(p.x, p.y);
+    const slope = x * y * iso.d2g(x, y);
     let next = u - f / slope;
     // Towards an open (dilute) end, at most double the distance from the other end of the bracket:
     // a step from near a spinodal point (g'' ~ 0) could otherwise shoot far past the root.
@@ -216,4 +219,34 @@ export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
   }
   if (hi - lo <= 1e-13 * Math.max(1, Math.abs(u))) { br.guess = u; return u; }
   return fail('convergence', `a point of equal slope did not converge at T = ${iso.T} K`);
+}
+
+/**
+ * The phase map at a temperature next to `prev`, when the caller knows that no critical point lies
+ * between the two temperatures (so no gap opens or closes and no unstable interval appears): the
+ * spinodal points are followed by Newton's method on q and the gap by `tangentNewton`. Covers the
+ * common cases of no gap and of one gap over one unstable interval; returns undefined (the caller
+ * then solves from scratch) for anything else or when a step does not settle.
+ */
+export function continueMap(iso: Isotherm, prev: PhaseMap): PhaseMap | undefined {
+  if (prev.spinodal.length === 0 && prev.gaps.length === 0) return { T: iso.T, gaps: [], spinodal: [] };
+  if (prev.spinodal.length !== 2 || prev.gaps.length !== 1) return undefined;
+  const s1 = followRoot(iso, prev.spinodal[0].u), s2 = followRoot(iso, prev.spinodal[1].u);
+  if (s1 === undefined || s2 === undefined || !(s1 < s2)) return undefined;
+  const gap = tangentNewton(iso, prev.gaps[0], s1, s2);
+  return gap && { T: iso.T, gaps: [gap], spinodal: [pointAt(s1), pointAt(s2)] };
+}
+
+/** A root of q = x y g''/RT near u, by Newton's method (undefined if it does not settle nearby). */
+function followRoot(iso: Isotherm, u: number): number | undefined {
+  const start = u;
+  for (let iter = 0; iter < 12; iter++) {
+    const p = pointAt(u);
+    const step = curvature(iso, p) / curvatureSlope(iso, p);
+    if (!Number.isFinite(step)) return undefined;
+    u -= step;
+    if (Math.abs(u - start) > 0.5) return undefined;
+    if (Math.abs(step) <= 1e-12 * Math.max(1, Math.abs(u))) return u; // quadratic: error now < 1e-20
+  }
+  return undefined;
 }

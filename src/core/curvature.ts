@@ -70,6 +70,9 @@ function gridFor(U: number): Grid {
   return grid;
 }
 
+/** Scratch space for the sampled q (analyse() reads it before any further call can overwrite it). */
+const qBuffer = new Float64Array(256);
+
 /** The sampling ranges tried in turn; the widest reaches x = 1e-304. */
 const RANGES = [40, 160, 700];
 
@@ -84,7 +87,7 @@ export function curvatureMap(iso: Isotherm, refineAll = true, near?: readonly Po
   for (const U of RANGES) {
     const { points, x, y } = gridFor(U);
     const n = points.length;
-    const q = new Float64Array(n);
+    const q = n <= qBuffer.length ? qBuffer.subarray(0, n) : new Float64Array(n);
     const RT = iso.RT;
     for (let i = 0; i < n; i++) q[i] = (x[i] * y[i] * iso.d2g(x[i], y[i])) / RT;
     if (!(q[0] > 0 && q[n - 1] > 0)) {

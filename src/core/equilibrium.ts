@@ -2,36 +2,83 @@ import { phaseMap, type Gap, type PhaseMap } from './binodal';
 import { criticalPoints, type CriticalPoint } from './critical';
 import { fail } from './errors';
 import type { BinaryModel } from './model';
+import { pointAt } from './model';
 
 /**
  * Shared, bounded memory of solves. Every cell function that needs the gaps at (model, T) asks
- * here, so GAPLOW and GAPHIGH of one row solve once. Bounds: 4096 temperatures and 256 models
- * (least recently used first out); about 2 MB at most.
+ * here, so GAPLOW and GAPHIGH of one row solve once.
+ *
+ * Solves live in a direct-mapped table of 4096 slots (a hash of model and T picks the slot; a new
+ * solve replaces what was there), packed into one preallocated Float64Array: 1 MiB in all, fixed,
+ * and no garbage however many distinct temperatures a workbook recalculates. Systems are
+ * remembered by parameter text, 256 at most (least recently used first out), each with its
+ * critical points.
  */
-const MAX_MAPS = 4096;
+const SLOTS = 4096;
+const SLOT_SIZE = 32; // [T, model id + 1, number of gaps, (u', u'', slope) per gap, u of each spinodal point, NaN]
+const table = new Float64Array(SLOTS * SLOT_SIZE);
 const MAX_MODELS = 256;
 
-const maps = new Map<string, PhaseMap>();
-const models = new Map<string, { critical?: CriticalPoint[]; last?: PhaseMap }>();
-
-function remember<V>(cache: Map<string, V>, key: string, value: V, bound: number): V {
-  cache.delete(key);
-  cache.set(key, value);
-  if (cache.size > bound) cache.delete(cache.keys().next().value as string);
-  return value;
+interface ModelState {
+  id: number;
+  critical?: CriticalPoint[];
+  last?: PhaseMap;
 }
+const models = new Map<string, ModelState>();
+let nextId = 0;
 
-function recall<V>(cache: Map<string, V>, key: string): V | undefined {
-  const value = cache.get(key);
-  if (value !== undefined) {
-    cache.delete(key);
-    cache.set(key, value);
+let recent: { key: string; state: ModelState } | undefined;
+
+function modelState(model: BinaryModel): ModelState {
+  // The same system as the call before (a filled column): no reordering needed.
+  if (recent && recent.key === model.key && models.get(model.key) === recent.state) return recent.state;
+  let state = models.get(model.key);
+  if (state) {
+    models.delete(model.key);
+  } else {
+    state = { id: nextId++ % 2 ** 30 };
+    if (models.size >= MAX_MODELS) models.delete(models.keys().next().value as string);
   }
-  return value;
+  models.set(model.key, state);
+  recent = { key: model.key, state };
+  return state;
 }
 
-function modelState(model: BinaryModel) {
-  return recall(models, model.key) ?? remember(models, model.key, {}, MAX_MODELS);
+const bitsOf = new Float64Array(1);
+const bits = new Uint32Array(bitsOf.buffer);
+function slotOf(id: number, T: number): number {
+  bitsOf[0] = T;
+  let h = Math.imul(bits[0] ^ Math.imul(id + 1, 0x9e3779b1), 0x85ebca6b) ^ bits[1];
+  h = Math.imul(h ^ (h >>> 15), 0xc2b2ae35);
+  return ((h ^ (h >>> 13)) >>> 0) % SLOTS;
+}
+
+function store(id: number, map: PhaseMap): void {
+  const need = 4 + 3 * map.gaps.length + map.spinodal.length;
+  if (need > SLOT_SIZE) return; // an exotic system with many gaps: solved again when asked again
+  const o = slotOf(id, map.T) * SLOT_SIZE;
+  table[o] = map.T;
+  table[o + 1] = id + 1;
+  table[o + 2] = map.gaps.length;
+  let k = o + 3;
+  for (const g of map.gaps) {
+    table[k++] = g.low.u;
+    table[k++] = g.high.u;
+    table[k++] = g.slope;
+  }
+  for (const p of map.spinodal) table[k++] = p.u;
+  table[k] = NaN; // end of the spinodal list
+}
+
+function lookup(id: number, T: number): PhaseMap | undefined {
+  const o = slotOf(id, T) * SLOT_SIZE;
+  if (table[o] !== T || table[o + 1] !== id + 1) return undefined;
+  const gaps = [];
+  let k = o + 3;
+  for (let i = 0; i < table[o + 2]; i++, k += 3) gaps.push({ low: pointAt(table[k]), high: pointAt(table[k + 1]), slope: table[k + 2] });
+  const spinodal = [];
+  for (; !Number.isNaN(table[k]); k++) spinodal.push(pointAt(table[k]));
+  return { T, gaps, spinodal };
 }
 
 export function checkTemperature(T: number): void {
@@ -45,14 +92,14 @@ export function checkTemperature(T: number): void {
  */
 export function equilibriumAt(model: BinaryModel, T: number): PhaseMap {
   checkTemperature(T);
-  const key = model.key + '|' + T;
-  const known = recall(maps, key);
-  if (known) return known;
   const state = modelState(model);
+  const known = lookup(state.id, T);
+  if (known) return known;
   const hint = state.last && Math.abs(state.last.T - T) < 0.1 * T ? state.last : undefined;
   const map = phaseMap(model.at(T), hint);
   state.last = map;
-  return remember(maps, key, map, MAX_MAPS);
+  store(state.id, map);
+  return map;
 }
 
 /** Every critical point of the model between 1 K and 20000 K, highest first; computed once. */
@@ -84,6 +131,7 @@ export function unstableAt(model: BinaryModel, T: number, n = 1): [number, numbe
 
 /** Empties the memory (tests and benchmarks). */
 export function forgetSolves(): void {
-  maps.clear();
+  table.fill(0);
   models.clear();
+  recent = undefined;
 }

@@ -1,4 +1,4 @@
-import { phaseMap, type Gap, type PhaseMap } from './binodal';
+import { continueMap, phaseMap, type Gap, type PhaseMap } from './binodal';
 import type { CriticalPoint } from './critical';
 import type { BinaryModel, Point } from './model';
 import { pointAt, logRatio } from './model';
@@ -18,7 +18,8 @@ export interface GapRow {
  * replaces the nearest interior grid temperature, and its row holds the critical composition in
  * all four columns, so a chart of the table closes its dome at the critical point. The spinodal
  * columns give the outermost spinodal points inside the gap. Each temperature starts from the
- * answer of the previous one.
+ * answer of the previous one; between two temperatures with no critical point in between, the
+ * spinodal and the gap are followed by Newton's method alone (see continueMap).
  */
 export function gapTable(
   model: BinaryModel, T1: number, T2: number, rows: number, n: number, critical: readonly CriticalPoint[],
@@ -41,9 +42,12 @@ export function gapTable(
   }
   const table: GapRow[] = [];
   let hint: PhaseMap | undefined;
+  const criticalBetween = (a: number, b: number) =>
+    critical.some((c) => (c.T >= a && c.T <= b) || (c.T >= b && c.T <= a));
   for (let i = 0; i < rows; i++) {
     const T = Ts[i];
-    const map = phaseMap(model.at(T), hint);
+    const iso = model.at(T);
+    const map = (hint && !criticalBetween(hint.T, T) && continueMap(iso, hint)) || phaseMap(iso, hint);
     if (!critAt.has(i)) hint = map;
     let gaps: Gap[] = map.gaps;
     const c = critAt.get(i);

@@ -1,0 +1,84 @@
+/**
+ * gapTable: rows of a regular solution against the closed forms, the critical row, rows above Tc,
+ * and a table of the second of two gaps.
+ */
+import { describe, expect, it } from 'vitest';
+import { phaseMap } from '../../src/core/binodal';
+import { criticalPoints } from '../../src/core/critical';
+import { gapTable } from '../../src/core/gapTable';
+import { redlichKister, regularSolution } from '../../src/core/models/redlichKister';
+import { regularBinodal, regularSpinodal } from './support/closedForms';
+import { R_SPEC } from './support/spec';
+
+describe('regular solution Omega = 20000 J/mol from 600 K to 1400 K, 9 rows', () => {
+  const omega = 20000, Tc = omega / (2 * R_SPEC); // Porter, Easterling & Sherif (2009) ch. 1: Tc = Omega / 2R
+  const model = regularSolution(omega);
+  const table = gapTable(model, 600, 1400, 9, 1, criticalPoints(model));
+
+  it('temperatures evenly spaced, the one nearest Tc replaced by Tc', () => {
+    expect(table).toHaveLength(9);
+    // 1202.7 K is nearest to the grid temperature 1200 K (row 7)
+    const want = [600, 700, 800, 900, 1000, 1100, Tc, 1300, 1400];
+    // Tc from criticalPoints: resolved to ~1e-13 relative (see critical.test.ts); 1e-9 allowed
+    table.forEach((row, i) => expect(Math.abs(row.T - want[i]) / want[i]).toBeLessThan(1e-9));
+  });
+
+  it('rows below Tc hold the closed-form binodal and spinodal', () => {
+    // Hillert, Phase Equilibria, Phase Diagrams and Phase Transformations, 2nd ed. (2008): regular-solution
+    // binodal ln[x/(1-x)] = Omega(2x-1)/(RT) and spinodal x(1-x) = RT/(2 Omega)
+    for (const row of table.slice(0, 6)) {
+      const b = regularBinodal(omega, row.T), s = regularSpinodal(omega, row.T);
+      // well away from Tc (T <= 0.915 Tc): rounding-limited, 1e-12 relative as in binodal.test.ts
+      expect(Math.abs(row.low - b.x) / b.x).toBeLessThan(1e-12);
+      expect(Math.abs(row.high - (1 - b.x)) / (1 - b.x)).toBeLessThan(1e-12);
+      expect(Math.abs(row.spinLow - s) / s).toBeLessThan(1e-12);
+      expect(Math.abs(row.spinHigh - (1 - s)) / (1 - s)).toBeLessThan(1e-12);
+    }
+  });
+
+  it('the critical row holds xc = 1/2 in all four columns', () => {
+    const row = table[6];
+    for (const v of [row.low, row.high, row.spinLow, row.spinHigh]) expect(Math.abs(v - 0.5)).toBeLessThan(1e-9);
+  });
+
+  it('rows above Tc are empty (NaN)', () => {
+    for (const row of table.slice(7)) {
+      for (const v of [row.low, row.high, row.spinLow, row.spinHigh]) expect(v).toBeNaN();
+    }
+  });
+
+  it('the same temperatures in descending order give the same rows, reversed', () => {
+    const down = gapTable(model, 1400, 600, 9, 1, criticalPoints(model));
+    down.reverse().forEach((row, i) => {
+      const up = table[i];
+      expect(row.T).toBeCloseTo(up.T, 9);
+      for (const k of ['low', 'high', 'spinLow', 'spinHigh'] as const) {
+        if (Number.isNaN(up[k])) expect(row[k]).toBeNaN();
+        else expect(Math.abs(row[k] - up[k])).toBeLessThan(1e-12); // the same solve, from other starting points
+      }
+    });
+  });
+});
+
+describe('two gaps: L0 = -5000, L2 = 60000 J/mol', () => {
+  const model = redlichKister([{ a: -5000, b: 0, c: 0 }, { a: 0, b: 0, c: 0 }, { a: 60000, b: 0, c: 0 }]);
+  const critical = criticalPoints(model);
+
+  it('gap 2 of the table is the B-rich gap of phaseMap', () => {
+    const table = gapTable(model, 400, 800, 5, 2, critical);
+    for (const row of table) {
+      const map = phaseMap(model.at(row.T));
+      expect(map.gaps).toHaveLength(2);
+      // the same solve from other starting points: equal to rounding
+      expect(Math.abs(row.low - map.gaps[1].low.x)).toBeLessThan(1e-12);
+      expect(Math.abs(row.high - map.gaps[1].high.x)).toBeLessThan(1e-12);
+      // spec: spinodal columns are the unstable interval inside that gap
+      expect(Math.abs(row.spinLow - map.spinodal[2].x)).toBeLessThan(1e-12);
+      expect(Math.abs(row.spinHigh - map.spinodal[3].x)).toBeLessThan(1e-12);
+    }
+  });
+
+  it('a gap number that does not exist gives empty rows', () => {
+    for (const row of gapTable(model, 400, 800, 3, 3, critical)) expect(row.low).toBeNaN();
+  });
+});

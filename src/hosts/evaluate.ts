@@ -17,7 +17,8 @@ export type ResultCell = number | string | boolean | null | ErrorCell;
 /** What one formula gives: a single cell, or the rows of a spilled result. */
 export type FormulaResult = ResultCell | ResultCell[][];
 
-const fallbackMessages: Record<string, string> = {
+/** What an error means, for errors the engine reports without a message of their own. */
+export const fallbackMessages: Record<string, string> = {
   '#DIV/0!': 'division by zero',
   '#NAME?': 'unknown function or name',
   '#VALUE!': 'wrong kind of value',

@@ -9,6 +9,7 @@
 import ExcelJS from 'exceljs';
 import { DetailedCellError } from 'hyperformula';
 import type { HyperFormula, RawCellContent, SimpleCellAddress } from 'hyperformula';
+import { fallbackMessages } from './evaluate';
 
 /** One formula cell of the workbook. */
 interface FormulaCell {
@@ -243,7 +244,7 @@ export async function evaluateWorkbook(
   const filled = new Map<string, Set<string>>(sheets.map((s) => [s, new Set<string>()]));
   const noteError = (sheet: string, row: number, col: number, v: unknown, spilled: boolean) => {
     if (v instanceof DetailedCellError) {
-      report.errors.push({ sheet, address: a1(row, col), code: v.value, message: v.message || '', spilled });
+      report.errors.push({ sheet, address: a1(row, col), code: v.value, message: v.message || fallbackMessages[v.value] || '', spilled });
     }
   };
   for (const f of formulas) {

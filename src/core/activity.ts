@@ -41,7 +41,9 @@ export function drivingForce(iso: Isotherm, map: PhaseMap, x0: number): number {
   const g0 = iso.g(x0, y0);
   let best = 0;
   if (map.spinodal.length === 0) return 0; // g convex everywhere: the tangent at x0 lies below g
-  for (const br of convexBranches(iso, map.spinodal)) {
+  const branches = convexBranches(iso, map.spinodal);
+  if (branches.length < 2) return 0; // only a critical point met exactly: still convex
+  for (const br of branches) {
     if (!(m0 > br.mA && m0 < br.mB)) continue;
     const p = pointAt(solveSlope(iso, br, m0));
     best = Math.max(best, g0 - iso.g(p.x, p.y) - m0 * (x0 - p.x));

@@ -1,7 +1,7 @@
 import { curvature, curvatureMap, curvatureSlope } from './curvature';
 import { fail } from './errors';
 import type { Isotherm, Point } from './model';
-import { muA, pointAt } from './model';
+import { logRatio, muA, pointAt } from './model';
 
 /** One miscibility gap at a temperature: the two coexisting compositions and their common tangent. */
 export interface Gap {
@@ -63,22 +63,55 @@ export function phaseMap(iso: Isotherm, hint?: PhaseMap): PhaseMap {
     let active = 0;
     let mFrom = -Infinity;
     while (active < branches.length - 1) {
-      let best: { m: number; k: number } | undefined;
+      let best: { m: number; k: number; nearCritical?: boolean } | undefined;
       for (let k = active + 1; k < branches.length; k++) {
+        const j = branches[active], next = branches[k];
+        if (k === active + 1 && nearCritical(iso, j, next)) {
+          const m = 0.5 * (j.mB + next.mA);
+          if (m > mFrom && (best === undefined || m < best.m)) best = { m, k, nearCritical: true };
+          continue;
+        }
         // With two branches only, the envelope must pass from one to the other: no need to test.
         const sure = branches.length === 2;
-        const m = crossing(iso, branches[active], branches[k], mFrom, sure, warm?.gaps[gaps.length]?.slope);
+        const m = crossing(iso, j, next, mFrom, sure, warm?.gaps[gaps.length]?.slope);
         if (m !== undefined && (best === undefined || m < best.m)) best = { m, k };
       }
       if (best === undefined) fail('convergence', `the common-tangent sweep lost the envelope at T = ${iso.T} K`);
-      const low = pointAt(solveSlope(iso, branches[active], best.m));
-      const high = pointAt(solveSlope(iso, branches[best.k], best.m));
-      gaps.push({ low, high, slope: best.m });
+      if (best.nearCritical) {
+        gaps.push(criticalGap(iso, branches[active].b, branches[best.k].a));
+      } else {
+        const low = pointAt(solveSlope(iso, branches[active], best.m));
+        const high = pointAt(solveSlope(iso, branches[best.k], best.m));
+        gaps.push({ low, high, slope: best.m });
+      }
       active = best.k;
       mFrom = best.m;
     }
   }
   return { T: iso.T, gaps, spinodal };
+}
+
+/**
+ * Near a critical point g' falls by only about RT w^3 across an unstable interval of width w, and
+ * below about 1e-11 RT (w of order 1e-4) that drop is too close to the rounding of g' itself
+ * (about 1e-16 of its terms) for the common tangent to be solved from g'. There the leading
+ * order of the expansion about the critical point is used instead (see criticalGap).
+ */
+function nearCritical(iso: Isotherm, j: Branch, k: Branch): boolean {
+  return j.mB - k.mA < 1e-11 * iso.RT;
+}
+
+/**
+ * The gap of a small unstable interval [s1, s2] next to a critical point, to leading order of the
+ * expansion of g about it (fourth order in x - xc): the binodal half-width is sqrt(3) times the
+ * spinodal half-width about the same centre, x = c +- sqrt(3) h, with an error of order h^2
+ * (for the regular solution, of order h^3), below 1e-8 wherever this is used.
+ */
+function criticalGap(iso: Isotherm, s1: number, s2: number): Gap {
+  const a = pointAt(s1), b = pointAt(s2);
+  const c = 0.5 * (a.x + b.x), h = 0.5 * (b.x - a.x);
+  const low = pointAt(logRatio(c - Math.sqrt(3) * h)), high = pointAt(logRatio(c + Math.sqrt(3) * h));
+  return { low, high, slope: iso.dg(c, 1 - c) };
 }
 
 /**
@@ -176,7 +209,7 @@ function crossing(iso: Isotherm, j: Branch, k: Branch, mFrom: number, sure: bool
     if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
     if (Math.abs(next - m) <= 1e-15 * scale || hi - lo <= 4e-16 * scale) {
       // Pinned against an end of the overlap: there was no sign change, so no tangent.
-      if (next - lo0 <= 1e-12 * scale || hi0 - next <= 1e-12 * scale) {
+      if (next - lo0 <= 1e-9 * (hi0 - lo0) || hi0 - next <= 1e-9 * (hi0 - lo0)) {
         return fail('convergence', `no common tangent between the convex stretches at T = ${iso.T} K`);
       }
       return next;
@@ -190,6 +223,9 @@ function crossing(iso: Isotherm, j: Branch, k: Branch, mFrom: number, sure: bool
  * The u on branch `br` where g'(u) = m: g' is increasing there (d g'/du = x y g'' >= 0).
  * Safeguarded Newton in u, with the bracket widened towards a dilute end when the branch is open.
  */
+/** |u| at which x (or 1 - x) reaches 1e-304: beyond, compositions are not representable with precision. */
+const U_LIMIT = 700;
+
 export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
   if (m >= br.mB) return br.b;
   if (m <= br.mA) return br.a;
@@ -205,19 +241,23 @@ export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
     if (f < 0) lo = u; else hi = u;
     const slope = x * y * iso.d2g(x, y);
     let next = u - f / slope;
-    // Towards an open (dilute) end, at most double the distance from the other end of the bracket:
+    // Towards an open (dilute) end, at most triple the distance from the branch's closed end:
     // a step from near a spinodal point (g'' ~ 0) could otherwise shoot far past the root.
-    if (lo === -Infinity) next = Math.max(next, u - Math.max(1, 2 * (hi - u)));
-    if (hi === Infinity) next = Math.min(next, u + Math.max(1, 2 * (u - lo)));
+    if (lo === -Infinity) next = Math.max(next, br.b - 3 * Math.max(1, br.b - u));
+    if (hi === Infinity) next = Math.min(next, br.a + 3 * Math.max(1, u - br.a));
     if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-    if (next < -740 || next > 740) {
-      if (u === -740 || u === 740) fail('range', `a gap boundary lies closer than 1e-300 to a pure component at T = ${iso.T} K`);
-      next = next < 0 ? -740 : 740;
+    if (next < -U_LIMIT || next > U_LIMIT) {
+      if (Math.abs(u) === U_LIMIT) fail('range', `a gap boundary lies closer than 1e-300 to a pure component at T = ${iso.T} K`);
+      next = next < 0 ? -U_LIMIT : U_LIMIT;
     }
-    if (Math.abs(next - u) <= 2e-16 * Math.max(1, Math.abs(u))) { u = next; br.guess = u; return u; }
+    // Newton converges quadratically here: after a step below 1e-12 the error is below 1e-20.
+    if (Math.abs(next - u) <= 1e-12 * Math.max(1, Math.abs(u)) || hi - lo <= 1e-14 * Math.max(1, Math.abs(u))) {
+      if (Math.abs(next) >= U_LIMIT) fail('range', `a gap boundary lies closer than 1e-300 to a pure component at T = ${iso.T} K`);
+      br.guess = next;
+      return next;
+    }
     u = next;
   }
-  if (hi - lo <= 1e-13 * Math.max(1, Math.abs(u))) { br.guess = u; return u; }
   return fail('convergence', `a point of equal slope did not converge at T = ${iso.T} K`);
 }
 

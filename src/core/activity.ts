@@ -48,7 +48,9 @@ export function drivingForce(iso: Isotherm, map: PhaseMap, x0: number): number {
     const p = pointAt(solveSlope(iso, br, m0));
     best = Math.max(best, g0 - iso.g(p.x, p.y) - m0 * (x0 - p.x));
   }
-  return best;
+  // x0's own stretch gives 0 up to rounding of g (about 1e-16 of its terms): below 1e-12 RT a
+  // "driving force" is that rounding, not a new phase.
+  return best > 1e-12 * iso.RT ? best : 0;
 }
 
 /** Decomposition gain: g(x0) minus the lower convex envelope at x0 (>= 0; 0 outside every gap). */

@@ -10,22 +10,28 @@ export interface GapRow {
   high: number;
   spinLow: number;
   spinHigh: number;
+  /** Whether this row is a critical point put in place of a grid temperature. */
+  critical: boolean;
+}
+
+/** `rows` temperatures evenly spaced from T1 to T2 (both included). */
+export function evenTemperatures(T1: number, T2: number, rows: number): number[] {
+  return Array.from({ length: rows }, (_, i) => (rows === 1 ? T1 : T1 + ((T2 - T1) * i) / (rows - 1)));
 }
 
 /**
- * Temperature, binodal and spinodal compositions of gap n (numbered from low x) at `rows`
- * temperatures evenly spaced from T1 to T2. Each critical temperature strictly between T1 and T2
- * replaces the nearest interior grid temperature, and its row holds the critical composition in
- * all four columns, so a chart of the table closes its dome at the critical point. The spinodal
- * columns give the outermost spinodal points inside the gap. Each temperature starts from the
- * answer of the previous one; between two temperatures with no critical point in between, the
- * spinodal and the gap are followed by Newton's method alone (see continueMap).
+ * Temperature, binodal and spinodal compositions of gap n (numbered from low x) at the given
+ * temperatures (kelvin, in order). Each critical temperature strictly inside their range replaces
+ * the nearest interior temperature, and its row holds the critical composition in all four
+ * columns, so a chart of the table closes its dome at the critical point. The spinodal columns
+ * give the outermost spinodal points inside the gap. Each temperature starts from the answer of
+ * the previous one; between two temperatures with no critical point in between, the spinodal and
+ * the gap are followed by Newton's method alone (see continueMap).
  */
-export function gapTable(
-  model: BinaryModel, T1: number, T2: number, rows: number, n: number, critical: readonly CriticalPoint[],
-): GapRow[] {
-  const Ts: number[] = [];
-  for (let i = 0; i < rows; i++) Ts.push(rows === 1 ? T1 : T1 + ((T2 - T1) * i) / (rows - 1));
+export function gapTable(model: BinaryModel, temperatures: readonly number[], n: number, critical: readonly CriticalPoint[]): GapRow[] {
+  const Ts = temperatures.slice();
+  const rows = Ts.length;
+  const T1 = Ts[0], T2 = Ts[rows - 1];
   const critAt = new Map<number, CriticalPoint>();
   const [tMin, tMax] = T1 < T2 ? [T1, T2] : [T2, T1];
   for (const c of critical) {
@@ -57,13 +63,13 @@ export function gapTable(
     }
     const gap = gaps[n - 1];
     if (!gap) {
-      table.push({ T, low: NaN, high: NaN, spinLow: NaN, spinHigh: NaN });
+      table.push({ T, low: NaN, high: NaN, spinLow: NaN, spinHigh: NaN, critical: !!c });
       continue;
     }
     const inner = map.spinodal.filter((s) => s.x > gap.low.x && s.x < gap.high.x).map((s) => s.x);
     const spinLow = gap.low === gap.high ? gap.low.x : inner.length ? Math.min(...inner) : NaN;
     const spinHigh = gap.low === gap.high ? gap.low.x : inner.length ? Math.max(...inner) : NaN;
-    table.push({ T, low: gap.low.x, high: gap.high.x, spinLow, spinHigh });
+    table.push({ T, low: gap.low.x, high: gap.high.x, spinLow, spinHigh, critical: !!c });
   }
   return table;
 }

@@ -10,7 +10,7 @@
  */
 import { criticalPoint } from '../core/critical';
 import { criticalPointsOf, equilibriumAt, gapAt, unstableAt } from '../core/equilibrium';
-import { gapTable as coreGapTable } from '../core/gapTable';
+import { evenTemperatures, gapTable as coreGapTable } from '../core/gapTable';
 import { gapTemperature } from '../core/gapTemperature';
 import { leverFractions } from '../core/leverRule';
 import { activities, decompositionGain, drivingForce, excessGibbs } from '../core/activity';
@@ -236,8 +236,11 @@ export function gapTable(T1: number, T2: number, rows: number, params: any[][], 
     const { model } = sys;
     const missing = new CellFailure('#N/A', `gap ${which} does not exist at this temperature`);
     const value = (v: number) => cellOf(Number.isNaN(v) ? missing : v);
-    return coreGapTable(model, from, to, n, which, criticalPointsOf(model)).map((r) => [
-      temperatureOut(sys, r.T), value(r.low), value(r.high), value(r.spinLow), value(r.spinHigh),
+    // The grid in the user's unit, converted row by row, so that its temperatures come back as typed.
+    const grid = evenTemperatures(number(T1, 'T1'), number(T2, 'T2'), n);
+    const kelvins = grid.map((t, i) => (i === 0 ? from : i === n - 1 ? to : temperatureIn(sys, t)));
+    return coreGapTable(model, kelvins, which, criticalPointsOf(model)).map((r, i) => [
+      r.critical ? temperatureOut(sys, r.T) : grid[i], value(r.low), value(r.high), value(r.spinLow), value(r.spinHigh),
     ]);
   });
 }

@@ -5,7 +5,7 @@
 import { describe, expect, it } from 'vitest';
 import { phaseMap } from '../../src/core/binodal';
 import { criticalPoints } from '../../src/core/critical';
-import { gapTable } from '../../src/core/gapTable';
+import { evenTemperatures, gapTable } from '../../src/core/gapTable';
 import { redlichKister, regularSolution } from '../../src/core/models/redlichKister';
 import { regularBinodal, regularSpinodal } from './support/closedForms';
 import { R_SPEC } from './support/spec';
@@ -13,7 +13,7 @@ import { R_SPEC } from './support/spec';
 describe('regular solution Omega = 20000 J/mol from 600 K to 1400 K, 9 rows', () => {
   const omega = 20000, Tc = omega / (2 * R_SPEC); // Porter, Easterling & Sherif (2009) ch. 1: Tc = Omega / 2R
   const model = regularSolution(omega);
-  const table = gapTable(model, 600, 1400, 9, 1, criticalPoints(model));
+  const table = gapTable(model, evenTemperatures(600, 1400, 9), 1, criticalPoints(model));
 
   it('temperatures evenly spaced, the one nearest Tc replaced by Tc', () => {
     expect(table).toHaveLength(9);
@@ -48,7 +48,7 @@ describe('regular solution Omega = 20000 J/mol from 600 K to 1400 K, 9 rows', ()
   });
 
   it('the same temperatures in descending order give the same rows, reversed', () => {
-    const down = gapTable(model, 1400, 600, 9, 1, criticalPoints(model));
+    const down = gapTable(model, evenTemperatures(1400, 600, 9), 1, criticalPoints(model));
     down.reverse().forEach((row, i) => {
       const up = table[i];
       expect(row.T).toBeCloseTo(up.T, 9);
@@ -65,7 +65,7 @@ describe('two gaps: L0 = -5000, L2 = 60000 J/mol', () => {
   const critical = criticalPoints(model);
 
   it('gap 2 of the table is the B-rich gap of phaseMap', () => {
-    const table = gapTable(model, 400, 800, 5, 2, critical);
+    const table = gapTable(model, evenTemperatures(400, 800, 5), 2, critical);
     for (const row of table) {
       const map = phaseMap(model.at(row.T));
       expect(map.gaps).toHaveLength(2);
@@ -79,6 +79,6 @@ describe('two gaps: L0 = -5000, L2 = 60000 J/mol', () => {
   });
 
   it('a gap number that does not exist gives empty rows', () => {
-    for (const row of gapTable(model, 400, 800, 3, 3, critical)) expect(row.low).toBeNaN();
+    for (const row of gapTable(model, evenTemperatures(400, 800, 3), 3, critical)) expect(row.low).toBeNaN();
   });
 });

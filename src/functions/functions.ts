@@ -21,6 +21,7 @@ import { CellFailure } from './errors';
  * Low (A-rich) boundary of a miscibility gap: the mole fraction of B of the A-rich phase that
  * coexists at temperature T (binodal).
  * @customfunction
+ * @helpurl https://localhost:3000/help/GAPLOW.html
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [gap] Which gap when there are several at T, numbered from low x (default 1).
@@ -37,6 +38,7 @@ export function gapLow(T: number, params: any[][], gap?: number): number {
  * High (B-rich) boundary of a miscibility gap: the mole fraction of B of the B-rich phase that
  * coexists at temperature T (binodal).
  * @customfunction
+ * @helpurl https://localhost:3000/help/GAPHIGH.html
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [gap] Which gap when there are several at T, numbered from low x (default 1).
@@ -52,6 +54,7 @@ export function gapHigh(T: number, params: any[][], gap?: number): number {
 /**
  * Number of miscibility gaps at temperature T (0 when the solution is homogeneous).
  * @customfunction
+ * @helpurl https://localhost:3000/help/GAPCOUNT.html
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @returns Number of gaps.
@@ -66,6 +69,7 @@ export function gapCount(T: number, params: any[][]): number {
 /**
  * Low end of an unstable interval (spinodal, where d2g/dx2 = 0) at temperature T.
  * @customfunction
+ * @helpurl https://localhost:3000/help/SPINLOW.html
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [interval] Which unstable interval when there are several, numbered from low x (default 1).
@@ -81,6 +85,7 @@ export function spinLow(T: number, params: any[][], interval?: number): number {
 /**
  * High end of an unstable interval (spinodal, where d2g/dx2 = 0) at temperature T.
  * @customfunction
+ * @helpurl https://localhost:3000/help/SPINHIGH.html
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [interval] Which unstable interval when there are several, numbered from low x (default 1).
@@ -97,6 +102,7 @@ export function spinHigh(T: number, params: any[][], interval?: number): number 
  * Temperature of a critical (consolute) point, where a gap closes. Critical points between 1 K and
  * 20000 K are numbered by temperature, highest first; CRITKIND tells upper from lower.
  * @customfunction
+ * @helpurl https://localhost:3000/help/TCRIT.html
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [n] Which critical point, 1 = highest temperature (default 1).
  * @returns Critical temperature (kelvin, or the card's temperature unit).
@@ -111,6 +117,7 @@ export function tCrit(params: any[][], n?: number): number {
 /**
  * Composition of a critical (consolute) point, numbered as in TCRIT (highest temperature first).
  * @customfunction
+ * @helpurl https://localhost:3000/help/XCRIT.html
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [n] Which critical point, 1 = highest temperature (default 1).
  * @returns Mole fraction of B at the critical point.
@@ -126,6 +133,7 @@ export function xCrit(params: any[][], n?: number): number {
  * Kind of a critical point, numbered as in TCRIT: "upper" (the gap exists just below it) or
  * "lower" (the gap exists just above it).
  * @customfunction
+ * @helpurl https://localhost:3000/help/CRITKIND.html
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [n] Which critical point, 1 = highest temperature (default 1).
  * @returns "upper" or "lower".
@@ -140,6 +148,7 @@ export function critKind(params: any[][], n?: number): string {
 /**
  * Number of critical points between 1 K and 20000 K.
  * @customfunction
+ * @helpurl https://localhost:3000/help/CRITCOUNT.html
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @returns Number of critical points (0 when no gap closes in that range).
  */
@@ -153,6 +162,7 @@ export function critCount(params: any[][]): number {
  * and the result is 0 or 1: the phase is "low" when x0 lies below the nearest gap and "high"
  * above it; with no gap at T, "low" for x0 up to 1/2 and "high" above.
  * @customfunction
+ * @helpurl https://localhost:3000/help/PHASEFRAC.html
  * @param x0 Overall mole fraction of B.
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
@@ -183,6 +193,7 @@ export function phaseFrac(x0: number, T: number, params: any[][], phase?: string
  * a binodal, i.e. where a homogeneous solution of composition x0 starts to separate on cooling
  * below an upper critical point.
  * @customfunction
+ * @helpurl https://localhost:3000/help/TGAP.html
  * @param x0 Overall mole fraction of B.
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @returns Temperature (kelvin, or the card's temperature unit).
@@ -198,6 +209,7 @@ export function tGap(x0: number, params: any[][]): number {
 /**
  * Molar Gibbs energy of mixing g(x, T) relative to the pure components.
  * @customfunction
+ * @helpurl https://localhost:3000/help/GMIX.html
  * @param x Mole fraction of B.
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
@@ -217,6 +229,7 @@ export function gMix(x: number, T: number, params: any[][]): number {
  * A critical temperature inside the range replaces the nearest row, with the critical
  * composition in all four columns, so the dome closes. Where the gap does not exist, #N/A.
  * @customfunction
+ * @helpurl https://localhost:3000/help/GAPTABLE.html
  * @param T1 First temperature (kelvin, or the card's temperature unit).
  * @param T2 Last temperature (kelvin, or the card's temperature unit).
  * @param rows Number of rows (2 to 10000); write it as a number in the formula.
@@ -249,6 +262,7 @@ export function gapTable(T1: number, T2: number, rows: number, params: any[][], 
  * Activity of a component at composition x and temperature T: ln a_i = mu_i / (R T), relative to
  * the pure component in the same structure.
  * @customfunction
+ * @helpurl https://localhost:3000/help/ACTIVITY.html
  * @param x Mole fraction of B.
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
@@ -266,6 +280,7 @@ export function activity(x: number, T: number, params: any[][], of?: string): nu
 /**
  * Activity coefficient of a component: gamma_i = a_i / x_i.
  * @customfunction
+ * @helpurl https://localhost:3000/help/ACTCOEF.html
  * @param x Mole fraction of B.
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
@@ -284,6 +299,7 @@ export function actCoef(x: number, T: number, params: any[][], of?: string): num
  * Chemical potential of a component relative to the pure component: mu_A = g - x g',
  * mu_B = g + (1 - x) g'.
  * @customfunction
+ * @helpurl https://localhost:3000/help/CHEMPOT.html
  * @param x Mole fraction of B.
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
@@ -301,6 +317,7 @@ export function chemPot(x: number, T: number, params: any[][], of?: string): num
 /**
  * Excess Gibbs energy: g minus the ideal mixing term RT[x ln x + (1-x) ln(1-x)].
  * @customfunction
+ * @helpurl https://localhost:3000/help/GEXCESS.html
  * @param x Mole fraction of B.
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
@@ -318,6 +335,7 @@ export function gExcess(x: number, T: number, params: any[][]): number {
  * the largest height of the tangent at x0 above g, per mole of the new phase. 0 when no new
  * phase can lower the energy.
  * @customfunction
+ * @helpurl https://localhost:3000/help/DRIVEFORCE.html
  * @param x0 Overall mole fraction of B of the homogeneous solution.
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
@@ -334,6 +352,7 @@ export function driveForce(x0: number, T: number, params: any[][]): number {
  * Decomposition gain: how far g of a homogeneous solution x0 lies above the lower convex
  * envelope (the energy released by splitting into the two coexisting phases). 0 outside every gap.
  * @customfunction
+ * @helpurl https://localhost:3000/help/DECOMPGAIN.html
  * @param x0 Overall mole fraction of B.
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
@@ -350,6 +369,7 @@ export function decompGain(x0: number, T: number, params: any[][]): number {
  * Reads a parameter card (or number, or range) and says in one line what it describes: model,
  * parameters as read, units, and its highest critical point, so a mistyped card shows at once.
  * @customfunction
+ * @helpurl https://localhost:3000/help/CHECKCARD.html
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @returns One-line summary.
  */

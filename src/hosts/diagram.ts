@@ -222,8 +222,8 @@ const round = (v: number, digits = 4) => Number(v.toPrecision(digits));
 /** The vega-lite specification of the picture. */
 export function diagramSpec(d: DiagramData): Record<string, unknown> {
   const tTitle = `Temperature (${d.temperatureUnit})`;
-  const x = { field: 'x', type: 'quantitative', title: d.compositionLabel, scale: { domain: [0, 1] }, axis: { tickCount: 10 } };
-  const y = { field: 'T', type: 'quantitative', title: tTitle, scale: { domain: [d.tmin, d.tmax], zero: false, nice: false } };
+  const x = { field: 'x', type: 'quantitative', title: d.compositionLabel, scale: { domain: [0, 1], nice: false, padding: 0 }, axis: { tickCount: 10 } };
+  const y = { field: 'T', type: 'quantitative', title: tTitle, scale: { domain: [d.tmin, d.tmax], zero: false, nice: false, padding: 0 } };
   const layers: Record<string, unknown>[] = [
     {
       data: { values: d.points },

@@ -13,6 +13,7 @@ import type { CustomFunctionsMetadata } from './engine';
 import { evaluateFormulas } from './evaluate';
 import type { FormulaResult, ResultCell } from './evaluate';
 import { buildMixgapEngine } from './mixgap-engine';
+import { columnName, quoteSheet } from './workbook';
 
 /** A parameter card as read from a file: rows of [key, value] (or a numeric parameter range). */
 export type CardGrid = Array<Array<string | number | boolean | null>>;
@@ -87,8 +88,7 @@ export function placeCard(engine: HyperFormula, grid: CardGrid, sheetName = 'Car
     return typeof v === 'string' ? `'${v}` : v ?? null; // text stays text
   }));
   engine.setSheetContent(sheet, content);
-  const lastCol = String.fromCharCode(64 + width);
-  return `'${name}'!$A$1:$${lastCol}$${grid.length}`;
+  return `${quoteSheet(name)}!$A$1:$${columnName(width - 1)}$${grid.length}`;
 }
 
 /**

@@ -9,6 +9,7 @@
 import ExcelJS from 'exceljs';
 import { DetailedCellError } from 'hyperformula';
 import type { HyperFormula, RawCellContent, SimpleCellAddress } from 'hyperformula';
+import { NAMESPACE } from './engine';
 import { fallbackMessages } from './evaluate';
 
 /** One formula cell of the workbook. */
@@ -108,11 +109,14 @@ export function quoteSheet(name: string): string {
 
 /**
  * A formula as stored in a file -> the engine's text. Files written by recent spreadsheet programs
- * prefix newer functions (`_xlfn.SEQUENCE`, `_xlws.FILTER`) and some user-defined ones
- * (`_xludf.NAME`); the engine knows them without the prefix.
+ * prefix newer functions (`_xlfn.SEQUENCE`, `_xlws.FILTER`) and unknown ones (`_xludf.NAME`), and
+ * Excel saves add-in functions with `_xldudf_` (`_xldudf_MIXGAP_GAPLOW`, sometimes after a link
+ * such as `[2]!`); the engine knows them as typed (`SEQUENCE`, `MIXGAP.GAPLOW`).
  */
 export function engineFormula(text: string): string {
-  const body = text.replace(/^\s*=/, '').replace(/_xl(?:fn|ws|udf)\./gi, '');
+  const body = text.replace(/^\s*=/, '')
+    .replace(new RegExp(`(?:\\[\\d+\\]!)?_xldudf_${NAMESPACE}[._]`, 'gi'), `${NAMESPACE}.`)
+    .replace(/_xl(?:fn|ws|udf)\./gi, '');
   return `=${body}`;
 }
 

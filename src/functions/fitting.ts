@@ -25,6 +25,7 @@ const isEmpty = (v: unknown) => v === null || v === undefined || v === '';
  * composition error. Spills one row per term, columns a, b, c of L_k = a + b T + c T ln T
  * (J/mol, J/(mol K), J/(mol K)); the table works directly as the params of GAPLOW and the others.
  * @customfunction
+ * @helpurl https://localhost:3000/help/FITTIELINES.html
  * @param data Tie-lines, one row each: T (K), x' (A-rich phase), x'' (B-rich phase), mole fractions of B. A first row of column titles is skipped.
  * @param terms Number of Redlich–Kister terms L0, L1, ... to fit (1 to 6); write it as a number in the formula.
  * @param [slopes] TRUE to give every term a temperature slope b, FALSE (default) for none, or one TRUE/FALSE per term, e.g. {TRUE,FALSE}.
@@ -48,6 +49,7 @@ export function fitTieLines(data: any[][], terms: number, slopes?: any[][], resu
  * How a tie-line fit went, in one line: coefficients, equations, degrees of freedom, the root mean
  * square composition residual of the weighted equations and the condition number.
  * @customfunction
+ * @helpurl https://localhost:3000/help/FITINFO.html
  * @param data Tie-lines, one row each: T (K), x' (A-rich phase), x'' (B-rich phase), mole fractions of B. A first row of column titles is skipped.
  * @param terms Number of Redlich–Kister terms L0, L1, ... (1 to 6).
  * @param [slopes] TRUE for a temperature slope on every term, FALSE (default) for none, or one TRUE/FALSE per term.
@@ -70,6 +72,7 @@ export function fitInfo(data: any[][], terms: number, slopes?: any[][]): string 
  * when known, composition: g'' = g''' = 0 there. Without xc one term L0 = 2 R Tc (critical point at
  * x = 1/2); with xc two constant terms. Spills 2 rows (L0, L1; L1 = 0 without xc) x 3 columns a, b, c.
  * @customfunction
+ * @helpurl https://localhost:3000/help/FITCRIT.html
  * @param Tc Critical temperature (K).
  * @param [xc] Critical mole fraction of B (default 1/2).
  * @returns 2 x 3 table: a, b, c of L0 and L1.
@@ -89,6 +92,7 @@ export function fitCrit(Tc: number, xc?: number): any[][] {
  * (6 rows x 2 columns) that works directly as params: with form "1/T" (default) tau_ij = b_ij / T,
  * so tau12 = b12 / T at the measured T; with form "constant" a12 and a21 are the taus themselves.
  * @customfunction
+ * @helpurl https://localhost:3000/help/FITNRTL.html
  * @param T Temperature of the measurement (K).
  * @param xLow Mole fraction of B in the A-rich phase (x').
  * @param xHigh Mole fraction of B in the B-rich phase (x'').
@@ -115,6 +119,7 @@ export function fitNrtl(T: number, xLow: number, xHigh: number, alpha: number, f
  * common-tangent solver) minus the measured one, on the side given. Positive when the model's
  * boundary lies at higher x. #N/A when the model has no gap at T.
  * @customfunction
+ * @helpurl https://localhost:3000/help/GAPRESID.html
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param x Measured mole fraction of B on that boundary.
  * @param params Parameter card, Omega in J/mol, or Redlich–Kister rows a, b, c (for example the table FITTIELINES spills).
@@ -136,6 +141,7 @@ export function gapResid(T: number, x: number, params: any[][], phase: string, g
 /**
  * Mass fraction of B from its mole fraction (atom fraction for alloys).
  * @customfunction
+ * @helpurl https://localhost:3000/help/MASSFRAC.html
  * @param x Mole fraction of B, 0 to 1.
  * @param A Molar mass of A in g/mol, or its formula or element symbol ("H2O", "Fe").
  * @param B Molar mass of B in g/mol, or its formula or element symbol.
@@ -148,6 +154,7 @@ export function massFrac(x: number, A: any, B: any): number {
 /**
  * Mole fraction of B (atom fraction for alloys) from its mass fraction.
  * @customfunction
+ * @helpurl https://localhost:3000/help/MOLEFRAC.html
  * @param w Mass fraction of B, 0 to 1.
  * @param A Molar mass of A in g/mol, or its formula or element symbol ("H2O", "Fe").
  * @param B Molar mass of B in g/mol, or its formula or element symbol.
@@ -160,6 +167,7 @@ export function moleFrac(w: number, A: any, B: any): number {
 /**
  * Weight percent of B from its mole percent (atom percent for alloys).
  * @customfunction
+ * @helpurl https://localhost:3000/help/WTPCT.html
  * @param molPercent Mole (atom) percent of B, 0 to 100.
  * @param A Molar mass of A in g/mol, or its formula or element symbol.
  * @param B Molar mass of B in g/mol, or its formula or element symbol.
@@ -172,6 +180,7 @@ export function wtPct(molPercent: number, A: any, B: any): number {
 /**
  * Mole percent (atom percent for alloys) of B from its weight percent.
  * @customfunction
+ * @helpurl https://localhost:3000/help/MOLPCT.html
  * @param wtPercent Weight percent of B, 0 to 100.
  * @param A Molar mass of A in g/mol, or its formula or element symbol.
  * @param B Molar mass of B in g/mol, or its formula or element symbol.
@@ -185,6 +194,7 @@ export function molPct(wtPercent: number, A: any, B: any): number {
  * Molar mass of a chemical formula from the IUPAC 2021 standard atomic weights: element symbols with
  * counts, groups in parentheses, hydrates with a middle dot ("CuSO4·5H2O").
  * @customfunction
+ * @helpurl https://localhost:3000/help/MOLARMASS.html
  * @param formula Chemical formula, e.g. "H2O", "C6H5OH", "Fe".
  * @returns Molar mass (g/mol).
  */
@@ -196,6 +206,7 @@ export function molarMass(formula: string): number {
  * Lever rule on a mass basis: the mass fraction of a batch of overall mole fraction x0 that is in
  * one phase of a gap (x', x''), for yield and cost sheets. 0 or 1 outside the gap.
  * @customfunction
+ * @helpurl https://localhost:3000/help/PHASEMASSFRAC.html
  * @param x0 Overall mole fraction of B.
  * @param xLow Mole fraction of B of the A-rich phase (x', e.g. from GAPLOW).
  * @param xHigh Mole fraction of B of the B-rich phase (x'', e.g. from GAPHIGH).
@@ -211,6 +222,7 @@ export function phaseMassFrac(x0: number, xLow: number, xHigh: number, A: any, B
 /**
  * Mass of a batch that ends up in one phase of a gap (x', x''): batch mass times PHASEMASSFRAC.
  * @customfunction
+ * @helpurl https://localhost:3000/help/PHASEMASS.html
  * @param batch Mass of the batch (any unit; the result has the same unit).
  * @param x0 Overall mole fraction of B.
  * @param xLow Mole fraction of B of the A-rich phase (x').

@@ -97,7 +97,7 @@ Writes OUT.svg and OUT.png: -o OUT (a trailing .svg or .png is dropped), or -o F
 FOLDER/<name>.diagram.*; default <name>.diagram.svg and .png beside CARD.
 
 Example:
-  mixgap diagram assets/demo.xlsx --range Card!A1:B8 --mark 'grade L=Ageing!C4' -o out/demo/`;
+  mixgap diagram assets/demo.xlsx --range Card!A1:B8 --mark 'grade L=Ageing!B4' -o out/demo/`;
 
 function positiveInteger(text: string): number {
   const n = Number(text);
@@ -190,7 +190,7 @@ export async function main(argv: string[]): Promise<number> {
     .option('--tmax <T>', 'highest temperature shown (card unit)', finiteNumber)
     .option('--temperature-unit <unit>', 'draw in K or °C instead of the card\'s unit')
     .option('--rows <n>', 'temperatures computed per gap (GAPTABLE rows, default 201)', positiveInteger)
-    .option('--mark <x>', 'an overall composition to mark: a number, a formula such as Ageing!C4, or LABEL=... (repeatable)', collect, [])
+    .option('--mark <x>', 'an overall composition to mark: a number, a formula such as Ageing!B4, or LABEL=... (repeatable)', collect, [])
     .option('--title <text>', 'title of the picture')
     .option('-o, --output <path>', 'OUT for OUT.svg and OUT.png, or a folder')
     .addHelpText('after', DIAGRAM_HELP)

@@ -97,7 +97,7 @@ Writes OUT.svg and OUT.png: -o OUT (a trailing .svg or .png is dropped), or -o F
 FOLDER/<name>.diagram.*; default <name>.diagram.svg and .png beside CARD.
 
 Example:
-  mixgap diagram assets/demo.xlsx --range Card!A1:B8 --mark 'grade L=Ageing!B4' -o out/demo/`;
+  mixgap diagram assets/demo.xlsx --range Card!A1:B7 --mark 'grade L=Ageing!B4' -o out/demo/`;
 
 function positiveInteger(text: string): number {
   const n = Number(text);

@@ -13,6 +13,8 @@ import { nrtl } from '../src/core/models/nrtl';
 import { redlichKister } from '../src/core/models/redlichKister';
 import { execFileSync } from 'child_process';
 import * as cells from '../src/functions/functions';
+import { fitTieLines } from '../src/core/fit/tieLines';
+import * as fitCells from '../src/functions/fitting';
 
 const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)];
 const fmt = (us: number) => (us < 1000 ? `${us.toFixed(2)} µs` : `${(us / 1000).toFixed(2)} ms`);
@@ -79,6 +81,15 @@ for (const [name, model] of models) report(`critical points 1 K to 20000 K (once
 report('GAPLOW cell function, new temperature each call (cache misses)', fmt(perCall((i) => cells.gapLow(500 + ((i * 0.6180339887) % 1) * 400, rk3Params))));
 report('GAPHIGH after GAPLOW of the same row (cache hit)', fmt(perCall((i) => cells.gapHigh(600, rk3Params))));
 report('TGAP cell function (critical points cached)', fmt(perCall((i) => cells.tGap(0.05 + ((i * 0.6180339887) % 1) * 0.5, rk3Params), 10, 10)));
+
+// From measurements to parameters: 50 tie-lines of the 3-term system (from the binodal solver), fitted back.
+const tie50 = Array.from({ length: 50 }, (_, i) => 500 + 7.5 * i).map((T) => {
+  const gap = phaseMap(rk3.at(T)).gaps[0];
+  return { T, xLow: gap.low.x, xHigh: gap.high.x };
+});
+report('fit 3 Redlich–Kister terms with slopes to 50 tie-lines (core, 3 weighting passes)', fmt(whole(() => fitTieLines(tie50, [true, true, true]))), 'target < 5 ms');
+const tie50Rows = tie50.map((t) => [t.T, t.xLow, t.xHigh]);
+report('FITTIELINES cell function, same 50 tie-lines', fmt(whole(() => fitCells.fitTieLines(tie50Rows, 3, [[true]]))));
 
 
 // Memory is measured in a fresh process, so that nothing above inflates it.

@@ -147,3 +147,33 @@ describe('conversions', () => {
     expect(evaluate('=MIXGAP.WTPCT(120, "Al", "Cu")')).toEqual({ error: '#NUM!', message: expect.stringMatching(/molPercent = 120 must lie between 0 and 100/) });
   });
 });
+
+describe('the README worked example (invented data) shows what the functions return', () => {
+  // Numbers as printed in README.md, "From measurements to parameters"; each check allows the
+  // rounding of the printed digits.
+  const wt = [[293.15, 3.8, 95.1], [313.15, 6.7, 91.8], [328.15, 11.2, 87.2], [338.15, 14.6, 82.6]];
+  it('coefficients, summary, critical point and batch split', () => {
+    const x = (w: number) => evaluate(`=MIXGAP.MOLEFRAC(${w / 100}, 58, 102)`) as number;
+    const rows = wt.map(([T, w1, w2]) => [T, x(w1), x(w2)]);
+    const data = arrayOf(rows);
+    const params = () => arrayOf(evaluate(`=MIXGAP.FITTIELINES(${data}, 2, {TRUE,FALSE})`) as number[][]);
+    const coef = evaluate(`=MIXGAP.FITTIELINES(${data}, 2, {TRUE,FALSE})`) as number[][];
+    expect(Math.abs(coef[0][0] - 19984)).toBeLessThan(0.5);
+    expect(Math.abs(coef[0][1] + 39.977)).toBeLessThan(0.0005);
+    expect(Math.abs(coef[1][0] - 1496.9)).toBeLessThan(0.05);
+    expect(evaluate(`=MIXGAP.FITINFO(${data}, 2, {TRUE,FALSE})`)).toBe(
+      '2 terms, 3 coefficients from 4 tie-lines (8 equations); 5 degrees of freedom; rms composition residual 0.00259; condition number 2.68');
+    const p = params();
+    expect(Math.abs((evaluate(`=MIXGAP.TCRIT(${p})`) as number) - 366.2)).toBeLessThan(0.05);
+    expect(Math.abs((evaluate(`=MIXGAP.XCRIT(${p})`) as number) - 0.3481)).toBeLessThan(0.00005);
+    const residuals = rows.flatMap(([T, x1, x2]) => [
+      evaluate(`=MIXGAP.GAPRESID(${T}, ${x1}, ${p}, "low")`) as number,
+      evaluate(`=MIXGAP.GAPRESID(${T}, ${x2}, ${p}, "high")`) as number,
+    ]);
+    expect(Math.abs(residuals[0] + 0.0009)).toBeLessThan(0.00005);
+    expect(Math.abs(residuals[1] - 0.0041)).toBeLessThan(0.00005);
+    expect(Math.max(...residuals.map(Math.abs))).toBeLessThan(0.00415);
+    const mass = evaluate(`=MIXGAP.PHASEMASS(1000, MIXGAP.MOLEFRAC(0.4, 58, 102), MIXGAP.GAPLOW(313.15, ${p}), MIXGAP.GAPHIGH(313.15, ${p}), 58, 102)`) as number;
+    expect(Math.abs(mass - 390.9)).toBeLessThan(0.05);
+  });
+});

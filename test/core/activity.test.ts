@@ -292,6 +292,43 @@ describe('driving force (parallel tangent) against brute-force maximisation', ()
   });
 });
 
+describe('driving force when the parallel tangent touches g next to a pure component', () => {
+  // Regular solution Omega = 60000 J/mol at 20 K (Omega/RT = 361): the gap boundaries lie at
+  // 2e-157 and 1 - 2e-157, which the core solves. For x0 deep in the B-rich half the tangent at x0
+  // has slope m0 = g'(x0) ~ -700 RT, so its parallel point on the A-rich branch, where
+  // ln[x/(1-x)] ~ (m0 - Omega)/RT, lies below 1e-300. There f(x) = g(x0) + m0 (x - x0) - g(x)
+  // rises towards that point from its limit at x -> 0, g(x0) - x0 g'(x0) = mu_A(x0), by less than
+  // RT x* < 1e-290 J/mol: the driving force is mu_A(x0) to every digit a double holds.
+  // Regular solution: mu_A = RT ln(1 - x) + Omega x^2 (Porter, Easterling & Sherif (2009), ch. 1;
+  // Hillert (2008)). Rounding of the closed form and of the core: a few 1e-16 of 6e4 J/mol; 1e-10
+  // relative is ample. Found by this test: drivingForce fails with 'range' ("a gap boundary lies
+  // closer than 1e-300 to a pure component") although no gap boundary is that close.
+  const omega = 60000, T = 20;
+  const iso = regularSolution(omega).at(T);
+  const RT = R_SPEC * T;
+
+  it('the gap itself is solved (boundaries near 2e-157)', () => {
+    const map = phaseMap(iso);
+    expect(map.gaps).toHaveLength(1);
+    expect(map.gaps[0].low.x).toBeGreaterThan(1e-300);
+  });
+
+  for (const x0 of [0.9, 0.99, 0.997]) {
+    it(`x0 = ${x0}: driving force = mu_A(x0) = RT ln(1 - x0) + Omega x0^2`, () => {
+      const map = phaseMap(iso);
+      const want = RT * Math.log1p(-x0) + omega * x0 * x0;
+      let got: number | string;
+      try {
+        got = drivingForce(iso, map, x0);
+      } catch (e) {
+        got = `throws: ${e instanceof Error ? e.message : String(e)}`;
+      }
+      if (typeof got !== 'number') expect.fail(`x0 = ${x0}: want ${want} J/mol, but drivingForce ${got}`);
+      expect(Math.abs(got - want) / want, `got ${got}, want ${want}`).toBeLessThan(1e-10);
+    });
+  }
+});
+
 describe('decomposition gain: g(x0) minus the chord of the binodal pair, 0 outside gaps', () => {
   // Spec, "Driving force ... Decomposition gain": g(x0) minus the lower convex envelope at x0; inside
   // a gap the envelope is the chord from (x', g(x')) to (x'', g(x'')). The chord here uses the

@@ -2,10 +2,14 @@
  * Sizes of spilled results, known from the formula text alone (the embedded engine must size a
  * spill before it computes). Excel does not need this: it sizes spills from the returned array.
  */
+import { fittingSpillShape } from './fittingShapes';
+
 export type LiteralArg = number | string | boolean | undefined;
 
 /** Rows and columns of a function's spilled result, or why it cannot be known from the formula text. */
 export function spillShape(id: string, args: LiteralArg[]): { rows: number; cols: number } | { error: string } {
+  const fit = fittingSpillShape(id, args);
+  if (fit) return fit;
   switch (id.toUpperCase()) {
     case 'GAPTABLE': {
       const rows = args[2];

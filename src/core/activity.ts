@@ -1,4 +1,5 @@
 import { convexBranches, solveSlope, type PhaseMap } from './binodal';
+import { MixgapError } from './errors';
 import type { Isotherm } from './model';
 import { pointAt } from './model';
 
@@ -45,8 +46,18 @@ export function drivingForce(iso: Isotherm, map: PhaseMap, x0: number): number {
   if (branches.length < 2) return 0; // only a critical point met exactly: still convex
   for (const br of branches) {
     if (!(m0 > br.mA && m0 < br.mB)) continue;
-    const p = pointAt(solveSlope(iso, br, m0));
-    best = Math.max(best, g0 - iso.g(p.x, p.y) - m0 * (x0 - p.x));
+    let height: number;
+    try {
+      const p = pointAt(solveSlope(iso, br, m0));
+      height = g0 - iso.g(p.x, p.y) - m0 * (x0 - p.x);
+    } catch (e) {
+      // The touching point lies closer than 1e-300 to a pure component: there g and x are 0 (or
+      // g = 0, x = 1) to every digit, and the height is that of the tangent at the end itself,
+      // mu_A(x0) = g0 - x0 m0 (or mu_B(x0) = g0 + (1 - x0) m0).
+      if (!(e instanceof MixgapError && e.reason === 'range')) throw e;
+      height = br.a === -Infinity ? g0 - x0 * m0 : g0 + (1 - x0) * m0;
+    }
+    best = Math.max(best, height);
   }
   // x0's own stretch gives 0 up to rounding of g (about 1e-16 of its terms): below 1e-12 RT a
   // "driving force" is that rounding, not a new phase.

@@ -247,12 +247,12 @@ export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
     if (hi === Infinity) next = Math.min(next, br.a + 3 * Math.max(1, u - br.a));
     if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
     if (next < -U_LIMIT || next > U_LIMIT) {
-      if (Math.abs(u) === U_LIMIT) fail('range', `a gap boundary lies closer than 1e-300 to a pure component at T = ${iso.T} K`);
+      if (Math.abs(u) === U_LIMIT) fail('range', `a tangent point (gap boundary) lies closer than 1e-300 to a pure component at T = ${iso.T} K`);
       next = next < 0 ? -U_LIMIT : U_LIMIT;
     }
     // Newton converges quadratically here: after a step below 1e-12 the error is below 1e-20.
     if (Math.abs(next - u) <= 1e-12 * Math.max(1, Math.abs(u)) || hi - lo <= 1e-14 * Math.max(1, Math.abs(u))) {
-      if (Math.abs(next) >= U_LIMIT) fail('range', `a gap boundary lies closer than 1e-300 to a pure component at T = ${iso.T} K`);
+      if (Math.abs(next) >= U_LIMIT) fail('range', `a tangent point (gap boundary) lies closer than 1e-300 to a pure component at T = ${iso.T} K`);
       br.guess = next;
       return next;
     }

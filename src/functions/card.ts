@@ -105,6 +105,8 @@ export function readCard(grid: unknown[][]): System {
   }
 
   const names = { A: text('name A') ?? 'A', B: text('name B') ?? 'B' };
+  if (names.A.toLowerCase() === names.B.toLowerCase()) throw bad(`"name A" and "name B" are both "${names.A}": give the components different names`);
+  if (names.A.toLowerCase() === 'b' || names.B.toLowerCase() === 'a') throw bad(`a component named "${names.A.toLowerCase() === 'b' ? names.A : names.B}" would be taken for the other component's letter: choose another name`);
   try {
     const energy = energyUnit(text('energy') ?? 'J/mol');
     const temperature = temperatureUnit(text('temperature') ?? 'K');

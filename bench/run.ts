@@ -98,6 +98,7 @@ report('1e6 distinct GAPLOW calls: peak resident memory of the process', `${figu
 report('1e6 distinct GAPLOW calls: heap in use after them (after GC)', `${figures.heapAfterMB.toFixed(1)} MB`);
 report('1e6 distinct GAPLOW calls: heap in use before them (after GC)', `${figures.heapBeforeMB.toFixed(1)} MB`);
 report('1e6 distinct GAPLOW calls: time per call', fmt(figures.usPerCall));
+worstCases();
 }
 
 /** 1e6 distinct calls through the cell function (every one a cache miss); prints JSON figures. */
@@ -120,3 +121,67 @@ function memory() {
   const heapAfterMB = process.memoryUsage().heapUsed / MB;
   console.log(JSON.stringify({ peakMB: peak / MB, heapBeforeMB, heapAfterMB, usPerCall }));
 }
+
+// ---------------------------------------------------------------------------------------------
+// Worst cases (issue 6): time per call on pathological systems, every call a new temperature
+// (a miss of the solve memory) unless said otherwise; a call that fails is timed like one that
+// answers (the error is its answer). Target: every call under 50 ms. The critical-point search
+// runs once per system (its result is remembered with the system); it is timed here from scratch.
+// ---------------------------------------------------------------------------------------------
+function worstCases() {
+  console.log('\nWorst cases (target: every call < 50 ms)');
+  const R = 8.314462618;
+  const settle = (call: () => unknown): boolean => { try { call(); return true; } catch { return false; } };
+  /** Median and slowest time per call (µs) of `call(i)` over n distinct calls (after a short warm-up), and how many failed. */
+  const spread = (call: (i: number) => unknown, n: number) => {
+    for (let w = 0; w < 3; w++) settle(() => call(n + w));
+    const times: number[] = [];
+    let errors = 0;
+    for (let i = 0; i < n; i++) {
+      const t0 = performance.now();
+      if (!settle(() => call(i))) errors++;
+      times.push((performance.now() - t0) * 1000);
+    }
+    return { median: median(times), max: Math.max(...times), errors, n };
+  };
+  let worst = { what: '', us: 0 };
+  const row = (what: string, t: { median: number; max: number; errors: number; n: number }) => {
+    if (t.max > worst.us) worst = { what, us: t.max };
+    const errors = t.errors ? `, ${t.errors} of ${t.n} calls an error` : '';
+    report(`${what}: median / slowest${errors}`, `${fmt(t.median)} / ${fmt(t.max)}`, t.max < 50_000 ? '< 50 ms' : 'OVER 50 ms');
+  };
+
+  // Invented pathological systems.
+  // 8 Redlich–Kister terms with large alternating coefficients (J/mol) and temperature slopes.
+  const rk8Params = [80000, -70000, 60000, -50000, 40000, -30000, 20000, -10000].map((a, k) => [a, k % 2 ? 5 : -10, 0]);
+  // Omega/RT from 680 down to 677 between 300 and 301.5 K: boundaries near e^-680 = 5e-296.
+  const diluteOmega = 680 * R * 300;
+  // Flory–Huggins with N_B = 1e6 chains in a solvent, chi = 0.3 + 100/T: critical near 500 K.
+  const fh6 = [['model', 'fh'], ['NA', 1], ['NB', 1e6], ['chi.A', 0.3], ['chi.B', 100]];
+  // NRTL with extreme taus at 300 K: tau12 = 20, tau21 = -5.
+  const nrtlX = [['model', 'nrtl'], ['a12', 0], ['b12', 6000], ['a21', 0], ['b21', -1500], ['alpha', 0.47]];
+  // The regular solution next to its critical point Tc = Omega/2R (spec, closed forms).
+  const omega = 21000, Tc = omega / (2 * R);
+  const systems: Array<[string, unknown[][] | number, (i: number) => number]> = [
+    ['8-term Redlich–Kister, alternating 80000 to -10000 J/mol', rk8Params, (i) => 300 + (i * 0.6180339887 % 1) * 1500],
+    ['regular, Omega/RT ~ 680 (boundaries near 1e-296)', diluteOmega, (i) => 300 + (i * 0.6180339887 % 1) * 1.5],
+    ['Flory–Huggins, N_B = 1e6', fh6, (i) => 300 + (i * 0.6180339887 % 1) * 250],
+    ['NRTL, tau12 = 20, tau21 = -5 at 300 K', nrtlX, (i) => 250 + (i * 0.6180339887 % 1) * 200],
+    ['regular, T within 1e-12 Tc of its critical point', omega, (i) => Tc * (1 - (1 + (i % 1000)) * 1e-15)],
+  ];
+  for (const [name, params, T] of systems) {
+    const p = params as any;
+    forgetSolves();
+    row(`GAPLOW, new temperature each call, ${name}`, spread((i) => cells.gapLow(T(i), p), 200));
+    row(`GAPCOUNT, new temperature each call, ${name}`, spread((i) => cells.gapCount(T(i + 7919), p), 200));
+    row(`CRITCOUNT from scratch (critical-point search), ${name}`, spread(() => { forgetSolves(); return cells.critCount(p); }, 5));
+    cells.critCount(p); // remembered from here on
+    row(`TGAP, critical points remembered, ${name}`, spread((i) => cells.tGap(0.02 + (i * 0.6180339887 % 1) * 0.96, p), 20));
+  }
+  // Exactly at, and 1e-12 around, the critical temperature.
+  forgetSolves();
+  row('GAPLOW at Tc (1 +- k 1e-13), k = 1..100, regular', spread((i) => cells.gapLow(Tc * (1 + (i % 2 ? 1 : -1) * (1 + (i >> 1)) * 1e-13), omega as any), 200));
+  row('TGAP(1/2 +- 1e-9), regular (enters the gap within 1e-12 of Tc)', spread((i) => cells.tGap(0.5 + (i % 2 ? 1 : -1) * 1e-9 * (1 + i), omega as any), 20));
+  report('worst case measured', `${fmt(worst.us)}`, worst.what);
+}
+

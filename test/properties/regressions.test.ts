@@ -138,4 +138,18 @@ describe('regressions found by the random-system properties', () => {
     expect(Math.abs(cells.xCrit(card(p)) - phiC)).toBeLessThan(1e-9);
     expect(cells.critKind(card(p))).toBe('upper');
   });
+
+  it('regression: 6.3e-9 K below the critical temperature GAPCOUNT is 0 and GAPLOW says "no gap" while SPINLOW finds an unstable interval', () => {
+    // found by the worst-case bench (temperatures within 1e-12 of a critical point)
+    // Porter, Easterling & Sherif (2009) ch. 1: regular solution, Tc = Omega/2R, a gap at every T < Tc
+    // containing x = 1/2; spec: every unstable interval lies inside a gap.
+    const omega = 21000, Tc = omega / (2 * R_SPEC), T = Tc * (1 - 5e-12);
+    forgetSolves();
+    const s = cells.spinLow(T, omega as any);
+    expect(s).toBeLessThan(0.5);
+    expect(cells.gapCount(T, omega as any)).toBe(1);
+    const x1 = cells.gapLow(T, omega as any), x2 = cells.gapHigh(T, omega as any);
+    expect(x1).toBeLessThan(s);
+    expect(x2).toBeGreaterThan(0.5);
+  });
 });

@@ -1,5 +1,5 @@
 import { curvature, curvatureMap, curvatureSlope } from './curvature';
-import { fail } from './errors';
+import { fail, MixgapError } from './errors';
 import type { Isotherm, Point } from './model';
 import { logRatio, muA, pointAt } from './model';
 
@@ -126,6 +126,7 @@ function tangentNewton(iso: Isotherm, start: Gap, s1: number, s2: number): Gap |
   let u1 = start.low.u, u2 = start.high.u;
   for (let iter = 0; iter < 8; iter++) {
     if (!(u1 < s1 && u2 > s2)) return undefined;
+    if (!(u1 > -U_LIMIT && u2 < U_LIMIT)) return undefined; // the full solve says why (1e-300)
     const p1 = pointAt(u1), p2 = pointAt(u2);
     const d1 = iso.dg(p1.x, p1.y), d2 = iso.dg(p2.x, p2.y);
     const G1 = d1 - d2;
@@ -154,9 +155,8 @@ export function convexBranches(iso: Isotherm, spinodal: Point[]): Branch[] {
   let start: Point | undefined; // left end of the branch being built (undefined: the dilute A end)
   for (let i = 0; i < spinodal.length; i += 2) {
     const a = spinodal[i], b = spinodal[i + 1];
-    // An unstable interval across which g' does not fall measurably is a critical point met
-    // exactly (zero width): it opens no gap, so the branches on both sides are one.
-    if (!(slopeAt(a) > slopeAt(b))) continue;
+    // An unstable interval across which g' does not fall measurably still bounds two branches:
+    // its gap is the near-critical one (see nearCritical), as small as the interval itself.
     branches.push(branch(start, a));
     start = b;
   }
@@ -172,8 +172,16 @@ export function convexBranches(iso: Isotherm, spinodal: Point[]): Branch[] {
 
 /** mu_A at the point of branch `br` where g' = m (the height of the tangent of slope m at x = 0). */
 function tangentHeight(iso: Isotherm, br: Branch, m: number): { h: number; x: number } {
-  const p = pointAt(solveSlope(iso, br, m));
-  return { h: muA(iso, p.x, p.y), x: p.x };
+  try {
+    const p = pointAt(solveSlope(iso, br, m));
+    return { h: muA(iso, p.x, p.y), x: p.x };
+  } catch (e) {
+    // A trial slope whose point lies beyond 1e-300 of a pure component: there the tangent of
+    // slope m touches g at the end itself, to every digit: x = 0, h = 0, or x = 1, h = g(1) - m = -m.
+    // (The slope finally chosen is solved again, and fails properly if its point is out of range.)
+    if (!(e instanceof MixgapError && e.reason === 'range')) throw e;
+    return br.a === -Infinity ? { h: 0, x: 0 } : { h: -m, x: 1 };
+  }
 }
 
 /**
@@ -229,6 +237,7 @@ const U_LIMIT = 700;
 export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
   if (m >= br.mB) return br.b;
   if (m <= br.mA) return br.a;
+  const tooDilute = () => fail('range', `a tangent point (gap boundary) lies closer than 1e-300 to a pure component at T = ${iso.T} K`);
   let lo = br.a, hi = br.b;
   let u = Math.min(Math.max(br.guess, lo), hi);
   if (!Number.isFinite(u)) u = 0;
@@ -239,20 +248,27 @@ export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
     const f = iso.dg(x, y) - m;
     if (f === 0) { br.guess = u; return u; }
     if (f < 0) lo = u; else hi = u;
-    const slope = x * y * iso.d2g(x, y);
-    let next = u - f / slope;
+    const step = f / (x * y * iso.d2g(x, y));
+    // Newton converges quadratically here: after a step below 1e-12 the error is below 1e-20.
+    // (Tested on the raw step: one that lands within an ulp of the root may touch the bracket.)
+    if (Math.abs(step) <= 1e-12 * Math.max(1, Math.abs(u))) {
+      const root = Math.min(Math.max(u - step, lo), hi);
+      if (Math.abs(root) >= U_LIMIT) tooDilute();
+      br.guess = root;
+      return root;
+    }
+    let next = u - step;
     // Towards an open (dilute) end, at most triple the distance from the branch's closed end:
     // a step from near a spinodal point (g'' ~ 0) could otherwise shoot far past the root.
     if (lo === -Infinity) next = Math.max(next, br.b - 3 * Math.max(1, br.b - u));
     if (hi === Infinity) next = Math.min(next, br.a + 3 * Math.max(1, u - br.a));
     if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
     if (next < -U_LIMIT || next > U_LIMIT) {
-      if (Math.abs(u) === U_LIMIT) fail('range', `a tangent point (gap boundary) lies closer than 1e-300 to a pure component at T = ${iso.T} K`);
+      if (Math.abs(u) === U_LIMIT) tooDilute();
       next = next < 0 ? -U_LIMIT : U_LIMIT;
     }
-    // Newton converges quadratically here: after a step below 1e-12 the error is below 1e-20.
-    if (Math.abs(next - u) <= 1e-12 * Math.max(1, Math.abs(u)) || hi - lo <= 1e-14 * Math.max(1, Math.abs(u))) {
-      if (Math.abs(next) >= U_LIMIT) fail('range', `a tangent point (gap boundary) lies closer than 1e-300 to a pure component at T = ${iso.T} K`);
+    if (hi - lo <= 4e-16 * Math.max(1, Math.abs(u))) {
+      if (Math.abs(next) >= U_LIMIT) tooDilute();
       br.guess = next;
       return next;
     }

@@ -66,12 +66,12 @@ export function criticalPoints(model: BinaryModel, Tmin = T_SEARCH_MIN, Tmax = T
   };
 
   for (let i = 0; i + 1 < SAMPLES; i++) {
-    for (const a of minimaAt[i]) {
-      const b = nearest(minimaAt[i + 1], a.u);
+    for (const [index, a] of minimaAt[i].entries()) {
+      const b = follow(minimaAt[i], minimaAt[i + 1], index);
       if (!b) continue;
       if (a.q < 0 !== b.q < 0) rootBetween(Ts[i], Ts[i + 1], a.u);
       // a dip (or a bump) between samples: depth near zero with a local extremum in T
-      const c = i + 2 < SAMPLES ? nearest(minimaAt[i + 2], b.u) : undefined;
+      const c = i + 2 < SAMPLES ? follow(minimaAt[i + 1], minimaAt[i + 2], minimaAt[i + 1].indexOf(b)) : undefined;
       if (c && b.q < 0 === a.q < 0 && b.q < 0 === c.q < 0 && Math.abs(b.q) < 0.2) {
         const sign = b.q > 0 ? 1 : -1;
         if (sign * (a.q - b.q) > 0 && sign * (c.q - b.q) > 0) {
@@ -99,20 +99,29 @@ export function criticalPoints(model: BinaryModel, Tmin = T_SEARCH_MIN, Tmax = T
   return points.sort((p, q) => q.T - p.T);
 }
 
-function nearest(list: Track[], u: number): Track | undefined {
+/**
+ * The minimum at the next sampled temperature that minimum `index` became. Local minima of q do
+ * not cross one another, so with as many minima at both temperatures they pair in order of u,
+ * however far they moved (near a dilute end u moves fast). Otherwise the nearest one, if within
+ * 1 + |u|/4 in u.
+ */
+function follow(from: Track[], to: Track[], index: number): Track | undefined {
+  if (from.length === to.length) return to[index];
+  const u = from[index].u;
   let best: Track | undefined;
-  for (const m of list) if (Math.abs(m.u - u) < 1 && (!best || Math.abs(m.u - u) < Math.abs(best.u - u))) best = m;
+  for (const m of to) if (Math.abs(m.u - u) < 1 + 0.25 * Math.abs(u) && (!best || Math.abs(m.u - u) < Math.abs(best.u - u))) best = m;
   return best;
 }
 
-/** The local minimum of q nearest to u (searched within +-0.5 in u). */
+/** The local minimum of q nearest to u (searched from +-0.5 in u outwards). */
 function localMinimum(iso: Isotherm, u: number): { u: number; q: number } {
   const slope = (t: number) => curvatureSlope(iso, pointAt(t));
   let a = u - 0.5, b = u + 0.5;
   let sa = slope(a), sb = slope(b);
-  for (let k = 0; k < 4 && !(sa < 0 && sb > 0); k++) {
-    if (sa >= 0) { a -= 0.5; sa = slope(a); }
-    if (sb <= 0) { b += 0.5; sb = slope(b); }
+  // widen geometrically (the minimum may have moved far between trial temperatures)
+  for (let k = 0, step = 0.5; k < 10 && !(sa < 0 && sb > 0); k++, step *= 2) {
+    if (sa >= 0) { a -= step; sa = slope(a); }
+    if (sb <= 0) { b += step; sb = slope(b); }
   }
   const t = sa < 0 && sb > 0 ? brentRoot(slope, a, b, sa, sb, 1e-14) : brentMin((s) => curvature(iso, pointAt(s)), a, b, 1e-13).t;
   return { u: t, q: curvature(iso, pointAt(t)) };

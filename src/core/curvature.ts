@@ -91,7 +91,7 @@ export function curvatureMap(iso: Isotherm, refineAll = true, near?: readonly Po
     const RT = iso.RT;
     for (let i = 0; i < n; i++) q[i] = (x[i] * y[i] * iso.d2g(x[i], y[i])) / RT;
     if (!(q[0] > 0 && q[n - 1] > 0)) {
-      if (Number.isNaN(q[0]) || Number.isNaN(q[n - 1])) fail('input', `g'' cannot be evaluated at T = ${iso.T} K`);
+      if (Number.isNaN(q[0]) || Number.isNaN(q[n - 1])) fail('range', `the model overflows at T = ${iso.T} K: its parameters are too large for this temperature`);
       continue; // still unstable at the sampled ends: sample wider
     }
     return analyse(iso, points, q, refineAll, near);

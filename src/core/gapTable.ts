@@ -58,8 +58,9 @@ export function gapTable(model: BinaryModel, temperatures: readonly number[], n:
     let gaps: Gap[] = map.gaps;
     const c = critAt.get(i);
     if (c) {
+      // The gap closing here, exactly at its critical point (the solve may show it as a sliver).
       const p: Point = pointAt(logRatio(c.x));
-      gaps = [...gaps, { low: p, high: p, slope: NaN }].sort((a, b) => a.low.x - b.low.x);
+      gaps = [...gaps.filter((g) => !(g.low.x <= c.x && c.x <= g.high.x)), { low: p, high: p, slope: NaN }].sort((a, b) => a.low.x - b.low.x);
     }
     const gap = gaps[n - 1];
     if (!gap) {

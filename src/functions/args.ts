@@ -15,11 +15,16 @@ const isEmpty = (v: unknown) => v === null || v === undefined || v === '';
 
 /** Runs a cell function body: core failures become the cell error that fits, with their message. */
 export function cell<T>(body: () => T): T {
+  let result: T;
   try {
-    return body();
+    result = body();
   } catch (e) {
     throw toHostError(asFailure(e));
   }
+  if (typeof result === 'number' && !Number.isFinite(result)) {
+    throw toHostError(new CellFailure('#NUM!', 'the result overflows (is not a finite number): the parameters are too large for this quantity'));
+  }
+  return result;
 }
 
 /** The CellFailure that reports any exception. */

@@ -88,7 +88,8 @@ export function readCard(grid: unknown[][]): System {
   const num = (key: string): number | undefined => {
     const v = entries.get(key);
     if (v === undefined) return undefined;
-    if (typeof v !== 'number' || !Number.isFinite(v)) throw bad(`"${key}" must be a number (got ${JSON.stringify(v)})`);
+    if (typeof v !== 'number') throw bad(`"${key}" must be a number (got ${JSON.stringify(v)})`);
+    if (!Number.isFinite(v)) throw bad(`"${key}" must be a finite number (got ${String(v)})`);
     return v;
   };
 

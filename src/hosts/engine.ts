@@ -262,6 +262,10 @@ export function buildEngine(
             args.push(undefined); // omitted optional argument
             continue;
           }
+          if (emptyArg[i]) {
+            args.push(null); // an omitted required argument is an empty cell, not 0: the function says so
+            continue;
+          }
           if (p.dimensionality === 'matrix') {
             v = toMatrix(v);
             if (v instanceof CellError) return v;

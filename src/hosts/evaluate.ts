@@ -40,7 +40,16 @@ function toResultCell(v: CellValue): ResultCell {
 /** A formula text as typed; a text without the leading `=` is taken as a formula all the same. */
 export function asFormula(text: string): string {
   const t = text.trim();
-  return t.startsWith('=') ? t : `=${t}`;
+  return lowerExponents(t.startsWith('=') ? t : `=${t}`);
+}
+
+/**
+ * `1E+12` -> `1e+12`: spreadsheets write exponents with a capital E, which the engine's parser
+ * does not read. Text inside "strings" and 'quoted sheet names' is left alone; elsewhere the
+ * change cannot alter meaning (names and functions are not case-sensitive).
+ */
+export function lowerExponents(formula: string): string {
+  return formula.replace(/("(?:[^"]|"")*"|'(?:[^']|'')*')|(\d\.?)E(?=[+-]?\d)/g, (all, quoted, digits) => quoted ?? `${digits}e`);
 }
 
 /**

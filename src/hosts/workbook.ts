@@ -10,7 +10,7 @@ import ExcelJS from 'exceljs';
 import { DetailedCellError } from 'hyperformula';
 import type { HyperFormula, RawCellContent, SimpleCellAddress } from 'hyperformula';
 import { NAMESPACE } from './engine';
-import { fallbackMessages } from './evaluate';
+import { fallbackMessages, lowerExponents } from './evaluate';
 
 /** One formula cell of the workbook. */
 interface FormulaCell {
@@ -117,7 +117,7 @@ export function engineFormula(text: string): string {
   const body = text.replace(/^\s*=/, '')
     .replace(new RegExp(`(?:\\[\\d+\\]!)?_xldudf_${NAMESPACE}[._]`, 'gi'), `${NAMESPACE}.`)
     .replace(/_xl(?:fn|ws|udf)\./gi, '');
-  return `=${body}`;
+  return lowerExponents(`=${body}`);
 }
 
 /** Days since 1899-12-30 (or 1904-01-01): the number a spreadsheet stores for a date. */

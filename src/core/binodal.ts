@@ -260,9 +260,12 @@ export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
     let next = u - step;
     // Towards an open (dilute) end, at most triple the distance from the branch's closed end:
     // a step from near a spinodal point (g'' ~ 0) could otherwise shoot far past the root.
-    if (lo === -Infinity) next = Math.max(next, br.b - 3 * Math.max(1, br.b - u));
-    if (hi === Infinity) next = Math.min(next, br.a + 3 * Math.max(1, u - br.a));
-    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
+    const wider = lo === -Infinity ? br.b - 3 * Math.max(1, br.b - u) : br.a + 3 * Math.max(1, u - br.a);
+    if (lo === -Infinity) next = Math.max(next, wider);
+    if (hi === Infinity) next = Math.min(next, wider);
+    // Outside the bracket (or not a number, at a spinodal point where g'' = 0): bisect, or widen
+    // towards the open end.
+    if (!(next > lo && next < hi)) next = lo === -Infinity || hi === Infinity ? wider : 0.5 * (lo + hi);
     if (next < -U_LIMIT || next > U_LIMIT) {
       if (Math.abs(u) === U_LIMIT) tooDilute();
       next = next < 0 ? -U_LIMIT : U_LIMIT;

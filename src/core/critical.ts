@@ -2,7 +2,7 @@ import { phaseMap } from './binodal';
 import { T_SEARCH_MAX, T_SEARCH_MIN } from './constants';
 import { curvatureMap, curvatureSlope, curvature } from './curvature';
 import { fail } from './errors';
-import type { BinaryModel, Isotherm } from './model';
+import type { BinaryModel, Isotherm, Point } from './model';
 import { pointAt } from './model';
 import { brentMin, brentRoot } from './roots';
 
@@ -38,12 +38,23 @@ interface Track {
 export function criticalPoints(model: BinaryModel, Tmin = T_SEARCH_MIN, Tmax = T_SEARCH_MAX): CriticalPoint[] {
   const Ts: number[] = [];
   for (let i = 0; i < SAMPLES; i++) Ts.push(Tmin * Math.pow(Tmax / Tmin, i / (SAMPLES - 1)));
+  // Unstable intervals at T (-1 where g'' cannot be followed: parameters far too large for it).
+  const spinodalAt = (T: number): Point[] | undefined => {
+    try {
+      return curvatureMap(model.at(T), false).spinodal;
+    } catch {
+      return undefined;
+    }
+  };
+  const intervals: number[] = [];
   const minimaAt = Ts.map((T) => {
     try {
       const map = curvatureMap(model.at(T), true);
+      intervals.push(map.spinodal.length / 2);
       return map.minima.map((m) => ({ u: m.point.u, q: m.q / map.scale }));
     } catch {
-      return []; // g'' cannot be followed at this temperature (parameters far too large for it)
+      intervals.push(-1);
+      return [];
     }
   });
 
@@ -91,6 +102,30 @@ export function criticalPoints(model: BinaryModel, Tmin = T_SEARCH_MIN, Tmax = T
     }
   }
 
+  // A minimum can appear (in a fold, with q > 0) and cross zero between two samples, where no
+  // minimum was there to follow. Wherever the number of unstable intervals changes between two
+  // samples and no critical point was found, bisect on T down to 1e-12 and look at the interval
+  // that appears: if q > 0 at its middle on the other side, a minimum crossed zero there.
+  for (let i = 0; i + 1 < SAMPLES; i++) {
+    if (intervals[i] < 0 || intervals[i + 1] < 0 || intervals[i] === intervals[i + 1]) continue;
+    if (found.some((f) => f.T >= Ts[i] && f.T <= Ts[i + 1])) continue;
+    let lo = Ts[i], hi = Ts[i + 1];
+    let sLo = spinodalAt(lo), sHi = spinodalAt(hi);
+    for (let k = 0; k < 80 && sLo && sHi && hi - lo > 1e-12 * hi; k++) {
+      const mid = 0.5 * (lo + hi);
+      const sMid = spinodalAt(mid);
+      if (!sMid) break;
+      if (sMid.length === sLo.length) { lo = mid; sLo = sMid; } else { hi = mid; sHi = sMid; }
+    }
+    if (!sLo || !sHi || sLo.length === sHi.length) continue;
+    const [more, lessT] = sLo.length > sHi.length ? [sLo, hi] : [sHi, lo];
+    const other = model.at(lessT);
+    for (let j = 0; j < more.length; j += 2) {
+      const u = 0.5 * (more[j].u + more[j + 1].u);
+      if (curvature(other, pointAt(u)) > 0) rootBetween(lo, hi, u);
+    }
+  }
+
   const points: CriticalPoint[] = [];
   for (const f of found) {
     if (points.some((p) => Math.abs(p.T - f.T) < 1e-9 * f.T && Math.abs(pointAt(f.u).x - p.x) < 1e-6)) continue;
@@ -129,7 +164,8 @@ function localMinimum(iso: Isotherm, u: number): { u: number; q: number } {
 
 /**
  * Whether a gap really closes at (Tc, xc): on the side where it exists, a gap must contain xc
- * and narrow like sqrt(|T - Tc|) towards it (width ratio 1/2 for a quarter of the distance).
+ * and narrow like sqrt(|T - Tc|) towards it (width ratio 1/2 for a quarter of the distance), and
+ * on the other side no gap may contain xc.
  */
 function closesThere(model: BinaryModel, Tc: number, u: number, kind: 'upper' | 'lower'): boolean {
   const xc = pointAt(u).x;
@@ -146,6 +182,8 @@ function closesThere(model: BinaryModel, Tc: number, u: number, kind: 'upper' | 
   const dT = 1e-4 * Tc;
   const wide = width(dT), narrow = width(dT / 4);
   if (!(wide > 0 && narrow > 0)) return false;
+  // and on the other side the gap must be gone (no gap around xc)
+  if (width(-dT) > 0) return false;
   const ratio = narrow / wide;
   return ratio > 0.3 && ratio < 0.7;
 }

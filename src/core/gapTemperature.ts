@@ -1,7 +1,7 @@
 import { phaseMap, type PhaseMap } from './binodal';
 import { T_SEARCH_MAX, T_SEARCH_MIN } from './constants';
 import type { CriticalPoint } from './critical';
-import { fail } from './errors';
+import { fail, MixgapError } from './errors';
 import type { BinaryModel } from './model';
 
 /** Whether x0 lies strictly inside one of the gaps of a phase map. */
@@ -26,7 +26,15 @@ export function gapTemperature(model: BinaryModel, x0: number, critical: readonl
 
   let hint: PhaseMap | undefined;
   const test = (T: number) => {
-    const map = phaseMap(model.at(T), hint);
+    let map: PhaseMap;
+    try {
+      map = phaseMap(model.at(T), hint);
+    } catch (e) {
+      // A gap boundary closer than 1e-300 to a pure component: the gap spans every representable
+      // composition on that side, x0 (>= 1e-300, checked above the range of doubles) among them.
+      if (e instanceof MixgapError && e.reason === 'range') return true;
+      throw e;
+    }
     hint = map;
     return inside(map, x0);
   };

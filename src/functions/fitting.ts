@@ -14,7 +14,7 @@ import { fitTieLines as fitTieLinesCore, type TieLine, type TieLineFit } from '.
 import { massFraction, massPhaseFractions, molarMass as formulaMass, moleFraction } from '../core/composition';
 import { cell, cellOf, fraction, number, ordinal, system, temperatureIn, type CellValue } from './args';
 import { CellFailure } from './errors';
-import { MAX_FIT_TERMS } from './fittingShapes';
+import { MAX_FIT_TERMS } from './shapes';
 
 
 const isEmpty = (v: unknown) => v === null || v === undefined || v === '';

@@ -1,31 +1,49 @@
 /**
  * Sizes of spilled results, known from the formula text alone (the embedded engine must size a
  * spill before it computes). Excel does not need this: it sizes spills from the returned array.
+ *
+ *   function     rows                                             columns
+ *   GAPTABLE     3rd argument, a whole number 2 to 10000            5
+ *   FITTIELINES  2nd argument, a whole number 1 to MAX_FIT_TERMS    3
+ *   FITCRIT      2                                                  3
+ *   FITNRTL      6                                                  2
+ * Every other function: one cell.
  */
-import { fittingSpillShape } from './fittingShapes';
-
 export type LiteralArg = number | string | boolean | undefined;
 
-/** Rows and columns of a function's spilled result, or why it cannot be known from the formula text. */
-export function spillShape(id: string, args: LiteralArg[]): { rows: number; cols: number } | { error: string } {
-  const fit = fittingSpillShape(id, args);
-  if (fit) return fit;
-  switch (id.toUpperCase()) {
-    case 'GAPTABLE': {
-      const rows = args[2];
-      if (typeof rows !== 'number') {
-        return {
-          error:
-            'GAPTABLE: write the number of rows (3rd argument) as a number in the formula, e.g. =MIXGAP.GAPTABLE(300, 1200, 51, B2:D3). ' +
-            'The formula engine sizes a spilled table from the formula text before it computes, so it cannot take the size from a cell or a calculation (Excel can).',
-        };
-      }
-      if (!(Number.isInteger(rows) && rows >= 2 && rows <= 10000)) {
-        return { error: `GAPTABLE: rows = ${rows}: give a whole number of rows from 2 to 10000` };
-      }
-      return { rows, cols: 5 };
-    }
-    default:
-      return { rows: 1, cols: 1 };
+export type Shape = { rows: number; cols: number } | { error: string };
+
+/** Most Redlich–Kister terms a fit may ask for. */
+export const MAX_FIT_TERMS = 6;
+
+/** A count written in the formula as argument `index` (0-based), within [min, max]. */
+function counted(
+  args: LiteralArg[], fn: string, index: number, what: string, min: number, max: number, example: string, cols: number,
+): Shape {
+  const n = args[index];
+  const position = ['1st', '2nd', '3rd', '4th', '5th'][index];
+  if (typeof n !== 'number') {
+    return {
+      error:
+        `${fn}: write the number of ${what} (${position} argument) as a number in the formula, e.g. ${example}. ` +
+        'The formula engine sizes a spilled table from the formula text before it computes, so it cannot take the size from a cell or a calculation (Excel can).',
+    };
   }
+  if (!(Number.isInteger(n) && n >= min && n <= max)) {
+    return { error: `${fn}: ${what} = ${n}: give a whole number of ${what} from ${min} to ${max}` };
+  }
+  return { rows: n, cols };
+}
+
+const rules: Record<string, (args: LiteralArg[]) => Shape> = {
+  GAPTABLE: (args) => counted(args, 'GAPTABLE', 2, 'rows', 2, 10000, '=MIXGAP.GAPTABLE(300, 1200, 51, B2:D3)', 5),
+  FITTIELINES: (args) => counted(args, 'FITTIELINES', 1, 'terms', 1, MAX_FIT_TERMS, '=MIXGAP.FITTIELINES(A2:C9, 2, TRUE)', 3),
+  FITCRIT: () => ({ rows: 2, cols: 3 }),
+  FITNRTL: () => ({ rows: 6, cols: 2 }),
+};
+
+/** Rows and columns of a function's spilled result, or why it cannot be known from the formula text. */
+export function spillShape(id: string, args: LiteralArg[]): Shape {
+  const rule = rules[id.toUpperCase()];
+  return rule ? rule(args) : { rows: 1, cols: 1 };
 }

@@ -1,8 +1,7 @@
 /**
  * The fitting and conversion cell functions as a spreadsheet sees them: through the embedded
  * formula engine, with metadata generated from the JSDoc tags of src/functions/sources.js and the
- * spill sizes of src/functions/fittingShapes.ts (composed here with src/functions/shapes.ts, as
- * the engine's spill-size function will do).
+ * spill sizes of src/functions/shapes.ts.
  */
 import path from 'path';
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -11,9 +10,8 @@ import type { HyperFormula } from 'hyperformula';
 import { phaseMap } from '../../src/core/binodal';
 import { redlichKister } from '../../src/core/models/redlichKister';
 import * as fns from '../../src/functions/index';
-import { fittingSpillShape } from '../../src/functions/fittingShapes';
 import { spillShape } from '../../src/functions/shapes';
-import { buildEngine, type CustomFunctionsMetadata, type LiteralArg } from '../../src/hosts/engine';
+import { buildEngine, type CustomFunctionsMetadata } from '../../src/hosts/engine';
 import { evaluateFormulas } from '../../src/hosts/evaluate';
 
 const root = path.join(__dirname, '..', '..');
@@ -21,7 +19,7 @@ const root = path.join(__dirname, '..', '..');
 const sources: string[] = require('../../src/functions/sources.js').map((f: string) => path.join(root, 'src', 'functions', f));
 let engine: HyperFormula;
 
-const shape = (id: string, args: LiteralArg[]) => fittingSpillShape(id, args) ?? spillShape(id, args);
+const shape = spillShape;
 
 beforeAll(async () => {
   const generated = await generateCustomFunctionsMetadata(sources, false);

@@ -54,7 +54,7 @@ export function phaseMap(iso: Isotherm, hint?: PhaseMap): PhaseMap {
   if (branches.length > 1) {
     // A nearby temperature with the same structure gives the starting points of every solve.
     const warm = hint && hint.spinodal.length === spinodal.length && hint.gaps.length > 0 ? hint : undefined;
-    if (warm?.gaps.length === 1 && branches.length === 2 && spinodal.length === 2) {
+    if (warm?.gaps.length === 1 && branches.length === 2 && spinodal.length === 2 && !nearCritical(iso, branches[0], branches[1])) {
       const gap = tangentNewton(iso, warm.gaps[0], spinodal[0].u, spinodal[1].u);
       if (gap) return { T: iso.T, gaps: [gap], spinodal };
       branches[0].guess = warm.gaps[0].low.u;
@@ -110,7 +110,9 @@ function nearCritical(iso: Isotherm, j: Branch, k: Branch): boolean {
 function criticalGap(iso: Isotherm, s1: number, s2: number): Gap {
   const a = pointAt(s1), b = pointAt(s2);
   const c = 0.5 * (a.x + b.x), h = 0.5 * (b.x - a.x);
-  const low = pointAt(logRatio(c - Math.sqrt(3) * h)), high = pointAt(logRatio(c + Math.sqrt(3) * h));
+  const xLow = c - Math.sqrt(3) * h, xHigh = c + Math.sqrt(3) * h;
+  if (!(xLow > 0 && xHigh < 1)) fail('convergence', `a near-critical gap next to a pure component at T = ${iso.T} K cannot be resolved`);
+  const low = pointAt(logRatio(xLow)), high = pointAt(logRatio(xHigh));
   return { low, high, slope: iso.dg(c, 1 - c) };
 }
 

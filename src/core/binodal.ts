@@ -151,6 +151,7 @@ function tangentNewton(iso: Isotherm, start: Gap, s1: number, s2: number): Gap |
   return undefined;
 }
 
+/** The convex stretches of g around the unstable intervals bounded by `spinodal`, from low x. */
 export function convexBranches(iso: Isotherm, spinodal: Point[]): Branch[] {
   const slopeAt = (p: Point) => iso.dg(p.x, p.y);
   const branches: Branch[] = [];
@@ -229,13 +230,13 @@ function crossing(iso: Isotherm, j: Branch, k: Branch, mFrom: number, sure: bool
   return fail('convergence', `the common tangent did not converge at T = ${iso.T} K`);
 }
 
+/** |u| at which x (or 1 - x) reaches 1e-304: beyond, compositions are not representable with precision. */
+const U_LIMIT = 700;
+
 /**
  * The u on branch `br` where g'(u) = m: g' is increasing there (d g'/du = x y g'' >= 0).
  * Safeguarded Newton in u, with the bracket widened towards a dilute end when the branch is open.
  */
-/** |u| at which x (or 1 - x) reaches 1e-304: beyond, compositions are not representable with precision. */
-const U_LIMIT = 700;
-
 export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
   if (m >= br.mB) return br.b;
   if (m <= br.mA) return br.a;

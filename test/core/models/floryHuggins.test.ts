@@ -4,7 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { floryHuggins, chiAt } from '../../../src/core/models/floryHuggins';
-import { expectDerivative, failureReason, yOf } from '../support/compare';
+import { expectModelMatches, failureReason } from '../support/compare';
 import { R_SPEC, fhG, fhText, type FhParams } from '../support/spec';
 import { reference } from '../support/symbolic';
 
@@ -30,17 +30,7 @@ describe('Flory–Huggins g and its derivatives against symbolic differentiation
     it(name, () => {
       const ref = reference(fhText(p));
       const model = floryHuggins(p);
-      for (const T of TS) {
-        const iso = model.at(T);
-        for (const x of XS) {
-          const y = yOf(x);
-          const got = [iso.g(x, y), iso.dg(x, y), iso.d2g(x, y), iso.d3g(x, y)];
-          for (let k = 0; k <= 3; k++) {
-            expectDerivative(got[k], ref.at(k, x, T), REL, floorOf(p, T), `${name}: d${k}g at phi = ${x}, T = ${T}`);
-          }
-          expectDerivative(fhG(p, T, x, y), ref.at(0, x, T), REL, floorOf(p, T), `${name}: reference fhG`);
-        }
-      }
+      expectModelMatches(name, model, ref, TS, XS, REL, (T) => floorOf(p, T), 'phi', (T, x, y) => fhG(p, T, x, y));
     });
   }
 

@@ -4,7 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { redlichKister, regularSolution } from '../../../src/core/models/redlichKister';
-import { expectDerivative, failureReason, yOf } from '../support/compare';
+import { expectDerivative, expectModelMatches, failureReason, yOf } from '../support/compare';
 import { R_SPEC, rkD2g, rkDg, rkG, rkL, rkText, type RkTerm } from '../support/spec';
 import { reference } from '../support/symbolic';
 
@@ -41,16 +41,7 @@ describe('Redlich–Kister g and its derivatives against symbolic differentiatio
     it(name, () => {
       const ref = reference(rkText(terms));
       const model = redlichKister(terms);
-      for (const T of TS) {
-        const iso = model.at(T);
-        for (const x of XS) {
-          const y = yOf(x);
-          const got = [iso.g(x, y), iso.dg(x, y), iso.d2g(x, y), iso.d3g(x, y)];
-          for (let k = 0; k <= 3; k++) {
-            expectDerivative(got[k], ref.at(k, x, T), REL, floorOf(terms, T), `${name}: d${k}g at x = ${x}, T = ${T}`);
-          }
-        }
-      }
+      expectModelMatches(name, model, ref, TS, XS, REL, (T) => floorOf(terms, T), 'x');
     });
   }
 

@@ -1,5 +1,7 @@
 import { expect } from 'vitest';
 import { MixgapError } from '../../../src/core/errors';
+import type { BinaryModel } from '../../../src/core/model';
+import type { Reference } from './symbolic';
 
 /**
  * The core's value of one derivative against the symbolic reference. The reference is exact to
@@ -15,6 +17,27 @@ export function expectDerivative(
   const err = Math.abs(got - want.value);
   if (!(err <= rel * scale)) {
     expect.fail(`${what}: got ${got}, want ${want.value} (error ${err.toExponential(2)}, allowed ${(rel * scale).toExponential(2)})`);
+  }
+}
+
+/**
+ * g and its first three derivatives of `model` against the symbolic reference at every T and x
+ * (and, when given, an independent evaluation `g` of the spec's formula against the same reference).
+ */
+export function expectModelMatches(
+  name: string, model: BinaryModel, ref: Reference, Ts: readonly number[], xs: readonly number[],
+  rel: number, floor: (T: number) => number, variable: string, g?: (T: number, x: number, y: number) => number,
+): void {
+  for (const T of Ts) {
+    const iso = model.at(T);
+    for (const x of xs) {
+      const y = yOf(x);
+      const got = [iso.g(x, y), iso.dg(x, y), iso.d2g(x, y), iso.d3g(x, y)];
+      for (let k = 0; k <= 3; k++) {
+        expectDerivative(got[k], ref.at(k, x, T), rel, floor(T), `${name}: d${k}g at ${variable} = ${x}, T = ${T}`);
+      }
+      if (g) expectDerivative(g(T, x, y), ref.at(0, x, T), rel, floor(T), `${name}: reference g at ${variable} = ${x}, T = ${T}`);
+    }
   }
 }
 

@@ -79,7 +79,7 @@ for (const [name, model, T1, T2] of models) {
 report('1000-temperature GAPTABLE cell function (critical points cached)', fmt(whole(() => cells.gapTable(500, 900, 1000, rk3Params))));
 for (const [name, model] of models) report(`critical points 1 K to 20000 K (once per system), ${name}`, fmt(whole(() => criticalPoints(model), 9)));
 report('GAPLOW cell function, new temperature each call (cache misses)', fmt(perCall((i) => cells.gapLow(500 + ((i * 0.6180339887) % 1) * 400, rk3Params))));
-report('GAPHIGH after GAPLOW of the same row (cache hit)', fmt(perCall((i) => cells.gapHigh(600, rk3Params))));
+report('GAPHIGH after GAPLOW of the same row (cache hit)', fmt(perCall(() => cells.gapHigh(600, rk3Params))));
 report('TGAP cell function (critical points cached)', fmt(perCall((i) => cells.tGap(0.05 + ((i * 0.6180339887) % 1) * 0.5, rk3Params), 10, 10)));
 
 // From measurements to parameters: 50 tie-lines of the 3-term system (from the binodal solver), fitted back.

@@ -49,7 +49,7 @@ export function asFormula(text: string): string {
  * change cannot alter meaning (names and functions are not case-sensitive).
  */
 export function lowerExponents(formula: string): string {
-  return formula.replace(/("(?:[^"]|"")*"|'(?:[^']|'')*')|(\d\.?)E(?=[+-]?\d)/g, (all, quoted, digits) => quoted ?? `${digits}e`);
+  return formula.replace(/("(?:[^"]|"")*"|'(?:[^']|'')*')|(\d\.?)E(?=[+-]?\d)/g, (_match, quoted, digits) => quoted ?? `${digits}e`);
 }
 
 /**

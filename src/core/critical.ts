@@ -131,7 +131,8 @@ export function criticalPoints(model: BinaryModel, Tmin = T_SEARCH_MIN, Tmax = T
     if (points.some((p) => Math.abs(p.T - f.T) < 1e-9 * f.T && Math.abs(pointAt(f.u).x - p.x) < 1e-6)) continue;
     if (closesThere(model, f.T, f.u, f.kind)) points.push({ T: f.T, x: pointAt(f.u).x, kind: f.kind });
   }
-  return points.sort((p, q) => q.T - p.T);
+  // highest temperature first; points at the same temperature (symmetric domes) from low x
+  return points.sort((p, q) => (Math.abs(p.T - q.T) <= 1e-9 * p.T ? p.x - q.x : q.T - p.T));
 }
 
 /**

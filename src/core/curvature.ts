@@ -104,12 +104,15 @@ function analyse(iso: Isotherm, points: Point[], q: Float64Array, refineAll: boo
   const spinodal: Point[] = [];
   const minima: CurvatureMinimum[] = [];
   const scale = Math.min(q[0], q[q.length - 1]);
-  const qAt = (u: number) => curvature(iso, pointAt(u));
-  const qdq = (u: number, out: Float64Array) => {
-    const p = pointAt(u);
-    out[0] = curvatureSlope(iso, p);
-    return curvature(iso, p);
+  // q and dq/du at u, with x and y computed in place (no Point objects: these run in root searches)
+  const qdq = (u: number, out?: Float64Array) => {
+    const e = Math.exp(-Math.abs(u));
+    const x = u < 0 ? e / (1 + e) : 1 / (1 + e), y = u < 0 ? 1 / (1 + e) : e / (1 + e);
+    const d2 = iso.d2g(x, y);
+    if (out) out[0] = (x * y * ((y - x) * d2 + x * y * iso.d3g(x, y))) / iso.RT;
+    return (x * y * d2) / iso.RT;
   };
+  const qAt = (u: number) => qdq(u);
   const root = (u0: number, u1: number, q0: number, q1: number) => {
     let start: number | undefined;
     if (near) for (const p of near) if (p.u > u0 && p.u < u1) start = p.u;

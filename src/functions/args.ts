@@ -87,6 +87,40 @@ export type { System } from './card';
  * the last term are ignored). Bare numbers and ranges use J/mol and kelvin.
  */
 export function system(params: unknown): System {
+  const key = fingerprint(params);
+  if (key === lastSystem?.key) return lastSystem.system;
+  let known = systems.get(key);
+  if (!known) {
+    known = readSystem(params);
+    if (systems.size >= MAX_SYSTEMS) systems.delete(systems.keys().next().value as string);
+    systems.set(key, known);
+  }
+  lastSystem = { key, system: known };
+  return known;
+}
+
+/**
+ * Systems already read, by the text of their parameter cells: a column of formulas that all point
+ * at one card reads it once. Bounded (256, oldest first out); a failed reading is not kept.
+ */
+const MAX_SYSTEMS = 256;
+const systems = new Map<string, System>();
+let lastSystem: { key: string; system: System } | undefined;
+
+/** The cells of a parameter argument as one text (type-tagged, so 1 and "1" differ). */
+function fingerprint(params: unknown): string {
+  const one = (v: unknown) => (typeof v === 'number' ? `n${v}` : typeof v === 'string' ? `s${v}` : typeof v === 'boolean' ? `b${v}` : isEmpty(v) ? '' : `?${String(v)}`);
+  if (!Array.isArray(params)) return one(params);
+  let text = '';
+  for (const row of params as unknown[]) {
+    if (Array.isArray(row)) for (const v of row) text += one(v) + '\u0001';
+    else text += one(row) + '\u0001';
+    text += '\u0002';
+  }
+  return text;
+}
+
+function readSystem(params: unknown): System {
   const grid: CellValue[][] = Array.isArray(params)
     ? (params as unknown[]).map((row) => (Array.isArray(row) ? (row as CellValue[]) : [row as CellValue]))
     : [[params as CellValue]];

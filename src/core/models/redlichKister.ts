@@ -42,7 +42,10 @@ export function coefficientsAt(terms: readonly RedlichKisterTerm[], T: number): 
 }
 
 function redlichKisterAt(terms: readonly RedlichKisterTerm[], T: number): Isotherm {
-  return new RedlichKisterIsotherm(Float64Array.from(coefficientsAt(terms, T)), T);
+  const L = new Float64Array(terms.length);
+  const lnT = Math.log(T);
+  for (let k = 0; k < terms.length; k++) L[k] = terms[k].a + terms[k].b * T + terms[k].c * T * lnT;
+  return new RedlichKisterIsotherm(L, T);
 }
 
 /**

@@ -168,7 +168,9 @@ function argumentType(p: ParameterMetadata): FunctionArgumentType {
   if (p.dimensionality === 'matrix') return FunctionArgumentType.ANY; // scalar or range
   switch (p.type) {
     case 'number':
-      return FunctionArgumentType.NUMBER;
+      // Passed as it is (not coerced by the engine), so that the function itself says what is
+      // wrong with a text or TRUE/FALSE given for a number, with the same message as in Excel.
+      return FunctionArgumentType.NOERROR;
     case 'string':
       return FunctionArgumentType.STRING;
     case 'boolean':

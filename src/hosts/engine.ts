@@ -169,7 +169,8 @@ function argumentType(p: ParameterMetadata): FunctionArgumentType {
   switch (p.type) {
     case 'number':
       // Passed as it is (not coerced by the engine), so that the function itself says what is
-      // wrong with a text or TRUE/FALSE given for a number, with the same message as in Excel.
+      // wrong with a text or TRUE/FALSE given for a number (Excel itself stops such a call with a
+      // bare #VALUE!; here the cell gets the message that names the argument).
       return FunctionArgumentType.NOERROR;
     case 'string':
       return FunctionArgumentType.STRING;

@@ -1,7 +1,7 @@
 import { curvature, curvatureMap, curvatureSlope } from './curvature';
 import { fail, MixgapError } from './errors';
 import type { Isotherm, Point } from './model';
-import { logRatio, muA, pointAt } from './model';
+import { logRatio, muA, pointAt, splitRatio } from './model';
 
 /** One miscibility gap at a temperature: the two coexisting compositions and their common tangent. */
 export interface Gap {
@@ -230,6 +230,9 @@ function crossing(iso: Isotherm, j: Branch, k: Branch, mFrom: number, sure: bool
   return fail('convergence', `the common tangent did not converge at T = ${iso.T} K`);
 }
 
+/** Scratch for x and y in solveSlope's loop. */
+const xy = new Float64Array(2);
+
 /** |u| at which x (or 1 - x) reaches 1e-304: beyond, compositions are not representable with precision. */
 const U_LIMIT = 700;
 
@@ -245,9 +248,8 @@ export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
   let u = Math.min(Math.max(br.guess, lo), hi);
   if (!Number.isFinite(u)) u = 0;
   for (let iter = 0; iter < 300; iter++) {
-    // x and y = 1 - x from u, as in pointAt (inlined: this loop runs for every solve)
-    const e = Math.exp(-Math.abs(u));
-    const x = u < 0 ? e / (1 + e) : 1 / (1 + e), y = u < 0 ? 1 / (1 + e) : e / (1 + e);
+    splitRatio(u, xy);
+    const x = xy[0], y = xy[1];
     const f = iso.dg(x, y) - m;
     if (f === 0) { br.guess = u; return u; }
     if (f < 0) lo = u; else hi = u;

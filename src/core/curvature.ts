@@ -1,6 +1,6 @@
 import { fail } from './errors';
 import type { Isotherm, Point } from './model';
-import { pointAt } from './model';
+import { pointAt, splitRatio } from './model';
 import { brentMin, brentRoot, newtonRoot } from './roots';
 
 /**
@@ -10,11 +10,18 @@ import { brentMin, brentRoot, newtonRoot } from './roots';
  *   dq/du = x y [(y - x) g'' + x y g'''] / (R T)
  */
 export function curvature(iso: Isotherm, p: Point): number {
-  return (p.x * p.y * iso.d2g(p.x, p.y)) / iso.RT;
+  return scaledCurvature(iso, p.x, p.y);
 }
 
 export function curvatureSlope(iso: Isotherm, p: Point): number {
-  const { x, y } = p;
+  return scaledCurvatureSlope(iso, p.x, p.y);
+}
+
+function scaledCurvature(iso: Isotherm, x: number, y: number): number {
+  return (x * y * iso.d2g(x, y)) / iso.RT;
+}
+
+function scaledCurvatureSlope(iso: Isotherm, x: number, y: number): number {
   return (x * y * ((y - x) * iso.d2g(x, y) + x * y * iso.d3g(x, y))) / iso.RT;
 }
 
@@ -88,8 +95,7 @@ export function curvatureMap(iso: Isotherm, refineAll = true, near?: readonly Po
     const { points, x, y } = gridFor(U);
     const n = points.length;
     const q = n <= qBuffer.length ? qBuffer.subarray(0, n) : new Float64Array(n);
-    const RT = iso.RT;
-    for (let i = 0; i < n; i++) q[i] = (x[i] * y[i] * iso.d2g(x[i], y[i])) / RT;
+    for (let i = 0; i < n; i++) q[i] = scaledCurvature(iso, x[i], y[i]);
     if (!(q[0] > 0 && q[n - 1] > 0)) {
       if (Number.isNaN(q[0]) || Number.isNaN(q[n - 1])) fail('range', `the model overflows at T = ${iso.T} K: its parameters are too large for this temperature`);
       continue; // still unstable at the sampled ends: sample wider
@@ -104,13 +110,12 @@ function analyse(iso: Isotherm, points: Point[], q: Float64Array, refineAll: boo
   const spinodal: Point[] = [];
   const minima: CurvatureMinimum[] = [];
   const scale = Math.min(q[0], q[q.length - 1]);
-  // q and dq/du at u, with x and y computed in place (no Point objects: these run in root searches)
+  // q and dq/du at u, without Point objects (these run in root searches)
+  const xy = new Float64Array(2);
   const qdq = (u: number, out?: Float64Array) => {
-    const e = Math.exp(-Math.abs(u));
-    const x = u < 0 ? e / (1 + e) : 1 / (1 + e), y = u < 0 ? 1 / (1 + e) : e / (1 + e);
-    const d2 = iso.d2g(x, y);
-    if (out) out[0] = (x * y * ((y - x) * d2 + x * y * iso.d3g(x, y))) / iso.RT;
-    return (x * y * d2) / iso.RT;
+    splitRatio(u, xy);
+    if (out) out[0] = scaledCurvatureSlope(iso, xy[0], xy[1]);
+    return scaledCurvature(iso, xy[0], xy[1]);
   };
   const qAt = (u: number) => qdq(u);
   const root = (u0: number, u1: number, q0: number, q1: number) => {

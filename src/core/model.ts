@@ -43,14 +43,22 @@ export interface Point {
   y: number;
 }
 
-/** x and y = 1 - x from u = ln(x / y), without cancellation at either end. */
+/**
+ * x and y = 1 - x from u = ln(x / y), without cancellation at either end, written into out[0] and
+ * out[1] (no object: for the solvers' inner loops).
+ */
+export function splitRatio(u: number, out: Float64Array): void {
+  const e = Math.exp(-Math.abs(u));
+  out[0] = u < 0 ? e / (1 + e) : 1 / (1 + e);
+  out[1] = u < 0 ? 1 / (1 + e) : e / (1 + e);
+}
+
+const xy = new Float64Array(2);
+
+/** x and y = 1 - x from u = ln(x / y), as a Point. */
 export function pointAt(u: number): Point {
-  if (u < 0) {
-    const e = Math.exp(u);
-    return { u, x: e / (1 + e), y: 1 / (1 + e) };
-  }
-  const e = Math.exp(-u);
-  return { u, x: 1 / (1 + e), y: e / (1 + e) };
+  splitRatio(u, xy);
+  return { u, x: xy[0], y: xy[1] };
 }
 
 /** u = ln(x / (1 - x)) for 0 < x < 1. */

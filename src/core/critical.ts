@@ -1,6 +1,6 @@
 import { phaseMap } from './binodal';
 import { T_SEARCH_MAX, T_SEARCH_MIN } from './constants';
-import { curvatureMap, curvatureSlope, curvature } from './curvature';
+import { curvature, curvatureMap, refineExtremum } from './curvature';
 import { fail } from './errors';
 import type { BinaryModel, Isotherm, Point } from './model';
 import { pointAt } from './model';
@@ -149,18 +149,9 @@ function follow(from: Track[], to: Track[], index: number): Track | undefined {
   return best;
 }
 
-/** The local minimum of q nearest to u (searched from +-0.5 in u outwards). */
+/** The local minimum of q nearest to u (searched from +-0.5 in u outwards: it may have moved far). */
 function localMinimum(iso: Isotherm, u: number): { u: number; q: number } {
-  const slope = (t: number) => curvatureSlope(iso, pointAt(t));
-  let a = u - 0.5, b = u + 0.5;
-  let sa = slope(a), sb = slope(b);
-  // widen geometrically (the minimum may have moved far between trial temperatures)
-  for (let k = 0, step = 0.5; k < 10 && !(sa < 0 && sb > 0); k++, step *= 2) {
-    if (sa >= 0) { a -= step; sa = slope(a); }
-    if (sb <= 0) { b += step; sb = slope(b); }
-  }
-  const t = sa < 0 && sb > 0 ? brentRoot(slope, a, b, sa, sb, 1e-14) : brentMin((s) => curvature(iso, pointAt(s)), a, b, 1e-13).t;
-  return { u: t, q: curvature(iso, pointAt(t)) };
+  return refineExtremum(iso, u - 0.5, u + 0.5, 1, 10, 1e-14);
 }
 
 /**

@@ -156,12 +156,22 @@ function analyse(iso: Isotherm, points: Point[], q: Float64Array, refineAll: boo
   return { spinodal, minima, scale };
 }
 
-/** Refines a local minimum (sign 1) or maximum (sign -1) of q on [u0, u1]: root of dq/du, or a bounded search. */
-function refineExtremum(iso: Isotherm, u0: number, u1: number, sign: 1 | -1): { u: number; q: number } {
+/**
+ * Refines a local minimum (sign 1) or maximum (sign -1) of q on [u0, u1], widened up to
+ * `widenings` times: root of dq/du, or a bounded search.
+ */
+export function refineExtremum(
+  iso: Isotherm, u0: number, u1: number, sign: 1 | -1, widenings = 0, tol = 1e-13,
+): { u: number; q: number } {
   const slope = (u: number) => sign * curvatureSlope(iso, pointAt(u));
-  const s0 = slope(u0), s1 = slope(u1);
+  let s0 = slope(u0), s1 = slope(u1);
+  // widen geometrically until dq/du brackets the extremum (it may lie outside the first guess)
+  for (let k = 0, step = 0.5 * (u1 - u0); k < widenings && !(s0 < 0 && s1 > 0); k++, step *= 2) {
+    if (s0 >= 0) { u0 -= step; s0 = slope(u0); }
+    if (s1 <= 0) { u1 += step; s1 = slope(u1); }
+  }
   let u: number;
-  if (s0 < 0 && s1 > 0) u = brentRoot(slope, u0, u1, s0, s1, 1e-13);
+  if (s0 < 0 && s1 > 0) u = brentRoot(slope, u0, u1, s0, s1, tol);
   else u = brentMin((t) => sign * curvature(iso, pointAt(t)), u0, u1, 1e-13).t;
   return { u, q: curvature(iso, pointAt(u)) };
 }

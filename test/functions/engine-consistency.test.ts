@@ -15,9 +15,10 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { generateCustomFunctionsMetadata } from 'custom-functions-metadata';
 import type { HyperFormula } from 'hyperformula';
 import { activities, decompositionGain, drivingForce } from '../../src/core/activity';
-import { phaseMap } from '../../src/core/binodal';
+import { phaseMap, type PhaseMap } from '../../src/core/binodal';
 import { criticalPoints } from '../../src/core/critical';
 import { forgetSolves } from '../../src/core/equilibrium';
+import type { BinaryModel, Isotherm } from '../../src/core/model';
 import { floryHuggins } from '../../src/core/models/floryHuggins';
 import { nrtl } from '../../src/core/models/nrtl';
 import * as fns from '../../src/functions/functions';
@@ -146,53 +147,46 @@ describe('the embedded engine gives what the cell functions give', () => {
 
 describe('the engine gives the core\'s numbers', () => {
   // The core called directly, on the model built from the same parameters (no card, no cell).
-  it('NRTL card: binodal, spinodal, critical point, activities, driving force', () => {
-    const T = 350, x = 0.3;
-    const iso = nrtl(NRTL_P).at(T);
-    const map = phaseMap(iso);
-    const [cp] = criticalPoints(nrtl(NRTL_P));
-    const a = activities(iso, x);
-    const c = inline(NRTL_CARD);
-    const pairs: Array<[string, number]> = [
-      [`=MIXGAP.GAPLOW(${T}, ${c})`, map.gaps[0].low.x],
-      [`=MIXGAP.GAPHIGH(${T}, ${c})`, map.gaps[0].high.x],
-      [`=MIXGAP.SPINLOW(${T}, ${c})`, map.spinodal[0].x],
-      [`=MIXGAP.SPINHIGH(${T}, ${c})`, map.spinodal[1].x],
-      [`=MIXGAP.TCRIT(${c})`, cp.T],
-      [`=MIXGAP.XCRIT(${c})`, cp.x],
-      [`=MIXGAP.ACTIVITY(${x}, ${T}, ${c}, "water")`, Math.exp(a.lnA)],
-      [`=MIXGAP.ACTIVITY(${x}, ${T}, ${c}, "oil")`, Math.exp(a.lnB)],
-      [`=MIXGAP.CHEMPOT(${x}, ${T}, ${c}, "B")`, a.muB],
-      [`=MIXGAP.DRIVEFORCE(${x}, ${T}, ${c})`, drivingForce(iso, map, x)],
-      [`=MIXGAP.DECOMPGAIN(${x}, ${T}, ${c})`, decompositionGain(iso, map, x)],
-    ];
-    forgetSolves();
-    const got = evaluateFormulas(engine, pairs.map(([f]) => f));
-    pairs.forEach(([f, want], i) => expectSame(got[i], want, f));
-  });
-
-  it('Flory–Huggins card: binodal, spinodal, critical point, activities, driving force', () => {
-    const T = 320, x = 0.1;
-    const iso = floryHuggins(FH_P).at(T);
-    const map = phaseMap(iso);
-    const [cp] = criticalPoints(floryHuggins(FH_P));
-    const a = activities(iso, x);
-    const c = inline(FH_CARD);
-    const pairs: Array<[string, number]> = [
-      [`=MIXGAP.GAPLOW(${T}, ${c})`, map.gaps[0].low.x],
-      [`=MIXGAP.GAPHIGH(${T}, ${c})`, map.gaps[0].high.x],
-      [`=MIXGAP.SPINLOW(${T}, ${c})`, map.spinodal[0].x],
-      [`=MIXGAP.SPINHIGH(${T}, ${c})`, map.spinodal[1].x],
-      [`=MIXGAP.TCRIT(${c})`, cp.T],
-      [`=MIXGAP.XCRIT(${c})`, cp.x],
-      [`=MIXGAP.ACTIVITY(${x}, ${T}, ${c}, "A")`, Math.exp(a.lnA)],
-      [`=MIXGAP.ACTCOEF(${x}, ${T}, ${c}, "B")`, Math.exp(a.lnGammaB)],
-      [`=MIXGAP.DRIVEFORCE(${x}, ${T}, ${c})`, drivingForce(iso, map, x)],
-    ];
-    forgetSolves();
-    const got = evaluateFormulas(engine, pairs.map(([f]) => f));
-    pairs.forEach(([f, want], i) => expectSame(got[i], want, f));
-  });
+  type Extra = (x: number, T: number, c: string, iso: Isotherm, map: PhaseMap, a: ReturnType<typeof activities>) => Array<[string, number]>;
+  const cases: Array<{ name: string; model: BinaryModel; card: string; T: number; x: number; extra: Extra }> = [
+    {
+      name: 'NRTL card', model: nrtl(NRTL_P), card: inline(NRTL_CARD), T: 350, x: 0.3,
+      extra: (x, T, c, iso, map, a) => [
+        [`=MIXGAP.ACTIVITY(${x}, ${T}, ${c}, "water")`, Math.exp(a.lnA)],
+        [`=MIXGAP.ACTIVITY(${x}, ${T}, ${c}, "oil")`, Math.exp(a.lnB)],
+        [`=MIXGAP.CHEMPOT(${x}, ${T}, ${c}, "B")`, a.muB],
+        [`=MIXGAP.DRIVEFORCE(${x}, ${T}, ${c})`, drivingForce(iso, map, x)],
+        [`=MIXGAP.DECOMPGAIN(${x}, ${T}, ${c})`, decompositionGain(iso, map, x)],
+      ],
+    },
+    {
+      name: 'Flory–Huggins card', model: floryHuggins(FH_P), card: inline(FH_CARD), T: 320, x: 0.1,
+      extra: (x, T, c, iso, map, a) => [
+        [`=MIXGAP.ACTIVITY(${x}, ${T}, ${c}, "A")`, Math.exp(a.lnA)],
+        [`=MIXGAP.ACTCOEF(${x}, ${T}, ${c}, "B")`, Math.exp(a.lnGammaB)],
+        [`=MIXGAP.DRIVEFORCE(${x}, ${T}, ${c})`, drivingForce(iso, map, x)],
+      ],
+    },
+  ];
+  for (const { name, model, card: c, T, x, extra } of cases) {
+    it(`${name}: binodal, spinodal, critical point, activities, driving force`, () => {
+      const iso = model.at(T);
+      const map = phaseMap(iso);
+      const [cp] = criticalPoints(model);
+      const pairs: Array<[string, number]> = [
+        [`=MIXGAP.GAPLOW(${T}, ${c})`, map.gaps[0].low.x],
+        [`=MIXGAP.GAPHIGH(${T}, ${c})`, map.gaps[0].high.x],
+        [`=MIXGAP.SPINLOW(${T}, ${c})`, map.spinodal[0].x],
+        [`=MIXGAP.SPINHIGH(${T}, ${c})`, map.spinodal[1].x],
+        [`=MIXGAP.TCRIT(${c})`, cp.T],
+        [`=MIXGAP.XCRIT(${c})`, cp.x],
+        ...extra(x, T, c, iso, map, activities(iso, x)),
+      ];
+      forgetSolves();
+      const got = evaluateFormulas(engine, pairs.map(([f]) => f));
+      pairs.forEach(([f, want], i) => expectSame(got[i], want, f));
+    });
+  }
 });
 
 describe('mixgap eval --json gives what the cell functions give', () => {

@@ -8,13 +8,10 @@
  * Compositions travel as the pair (x, y) with y = 1 - x computed without cancellation, so that both
  * dilute ends (x -> 0 and x -> 1) keep full relative precision.
  *
- * Ternary systems will get their own `TernaryModel` beside this one; `components` already says how
- * many there are.
+ * What a model is called, its card keys and its composition variable are declared beside it, in its
+ * `ModelFamily` (./family.ts).
  */
 export interface BinaryModel {
-  /** Which family ('redlich-kister', 'flory-huggins', 'nrtl'). */
-  readonly family: string;
-  readonly components: 2;
   /** A stable text that identifies the parameters, used as a cache key. */
   readonly key: string;
   /** The model with its temperature-dependent parameters evaluated at T (kelvin, > 0). */

@@ -3,9 +3,9 @@
  * what to fix. Nothing numerical happens in this file.
  */
 import { MixgapError } from '../core/errors';
-import { redlichKister, type RedlichKisterTerm } from '../core/models/redlichKister';
+import { describeRedlichKister, describeRegular, redlichKister, type RedlichKisterTerm } from '../core/models/redlichKister';
 import { JOULE_PER_MOLE, KELVIN } from '../core/units';
-import { isCard, readCard, signed, type System } from './card';
+import { isCard, readCard, unitNote, type System } from './card';
 import { CellFailure, toHostError, type Cell } from './errors';
 
 /** A cell value as hosts hand it over: empty cells arrive as null, undefined or ''. */
@@ -147,10 +147,10 @@ function readSystem(params: unknown): System {
     return { a, b, c };
   });
   const model = redlichKister(terms);
-  const description = terms.length === 1 && terms[0].b === 0 && terms[0].c === 0
-    ? `regular solution, omega = ${terms[0].a} J/mol; energies in J/mol, temperatures in K`
-    : `Redlich–Kister, ${terms.length} term${terms.length > 1 ? 's' : ''}: ${terms.map((t, k) => `L${k} = ${t.a}${signed(t.b, 'T')}${signed(t.c, 'T ln T')}`).join('; ')} (J/mol, T in K); energies in J/mol, temperatures in K`;
-  return { model, energy: JOULE_PER_MOLE, temperature: KELVIN, names: { A: 'A', B: 'B' }, description };
+  const regular = terms.length === 1 && terms[0].b === 0 && terms[0].c === 0;
+  const words = regular ? describeRegular(terms[0].a, JOULE_PER_MOLE.name) : describeRedlichKister(terms, JOULE_PER_MOLE.name);
+  const description = `${words}; ${unitNote(JOULE_PER_MOLE, KELVIN)}`;
+  return { model, energy: JOULE_PER_MOLE, temperature: KELVIN, names: { A: 'A', B: 'B' }, composition: 'mole fraction', description };
 }
 
 /** A temperature argument in the system's unit, returned in kelvin (above 0 K). */

@@ -1,5 +1,6 @@
 import { R } from '../constants';
 import { fail } from '../errors';
+import type { ModelFamily } from '../family';
 import type { BinaryModel, Isotherm } from '../model';
 
 /** Flory–Huggins parameters: chain lengths (lattice sites per molecule) and chi(T) = A + B/T. */
@@ -27,8 +28,6 @@ export function floryHuggins(p: FloryHugginsParameters): BinaryModel {
   }
   const { NA, NB, A, B } = p;
   return {
-    family: 'flory-huggins',
-    components: 2,
     key: `FH:${NA},${NB},${A},${B}`,
     at: (T) => new FloryHugginsIsotherm(NA, NB, A + B / T, T),
   };
@@ -67,3 +66,24 @@ class FloryHugginsIsotherm implements Isotherm {
     return this.RT * (1 / (this.NA * y * y) - 1 / (this.NB * x * x));
   }
 }
+
+/** Cards `model | flory-huggins` (or fh): chain lengths NA, NB and chi = chi.A + chi.B / T. */
+export const floryHugginsFamily: ModelFamily = {
+  name: 'flory-huggins',
+  aliases: ['fh'],
+  keys: ['NA', 'NB', 'chi.A', 'chi.B'],
+  composition: 'volume fraction',
+  keyRows: [
+    { keys: ['NA', 'NB'], meaning: 'chain lengths in lattice sites (1 for a solvent)' },
+    { keys: ['chi.A', 'chi.B'], meaning: 'chi = chi.A + chi.B / T (chi.B in K)' },
+  ],
+  fromCard(card) {
+    const NA = card.num('NA'), NB = card.num('NB'), A = card.num('chi.A'), B = card.num('chi.B');
+    if (NA === undefined || NB === undefined) fail('input', `a flory-huggins card needs "NA" and "NB" (chain lengths; 1 for a solvent)`);
+    if (A === undefined && B === undefined) fail('input', `a flory-huggins card needs "chi.A" and/or "chi.B" (chi = chi.A + chi.B / T, T in K)`);
+    return {
+      model: floryHuggins({ NA, NB, A: A ?? 0, B: B ?? 0 }),
+      description: `Flory–Huggins, NA = ${NA}, NB = ${NB}, chi = ${A ?? 0} + ${B ?? 0}/T (T in K)`,
+    };
+  },
+};

@@ -1,5 +1,6 @@
 import { R } from '../constants';
 import { fail } from '../errors';
+import type { ModelFamily } from '../family';
 import type { BinaryModel, Isotherm } from '../model';
 
 /** NRTL parameters: tau_ij = a_ij + b_ij / T (a dimensionless, b in K) and the non-randomness alpha. */
@@ -25,8 +26,6 @@ export function nrtl(p: NrtlParameters): BinaryModel {
   if (!(p.alpha > 0)) fail('input', `NRTL alpha must be above 0 (typically 0.2 to 0.47; got ${p.alpha})`);
   const { a12, b12, a21, b21, alpha } = p;
   return {
-    family: 'nrtl',
-    components: 2,
     key: `NRTL:${a12},${b12},${a21},${b21},${alpha}`,
     at: (T) => new NrtlIsotherm(a12 + b12 / T, a21 + b21 / T, alpha, T),
   };
@@ -83,3 +82,25 @@ class NrtlIsotherm implements Isotherm {
     return this.RT * (1 / (y * y) - 1 / (x * x)) + this.excess(x, y, 3);
   }
 }
+
+/** Cards `model | nrtl`: tau_ij = a_ij + b_ij / T and alpha. */
+export const nrtlFamily: ModelFamily = {
+  name: 'nrtl',
+  aliases: [],
+  keys: ['a12', 'b12', 'a21', 'b21', 'alpha'],
+  composition: 'mole fraction',
+  keyRows: [
+    { keys: ['a12', 'b12', 'a21', 'b21'], meaning: 'tau_ij = a_ij + b_ij / T (b in K); component 1 = A, 2 = B' },
+    { keys: ['alpha'], meaning: 'non-randomness, G_ij = exp(-alpha tau_ij)' },
+  ],
+  fromCard(card) {
+    const a12 = card.num('a12'), b12 = card.num('b12'), a21 = card.num('a21'), b21 = card.num('b21'), alpha = card.num('alpha');
+    if (a12 === undefined && b12 === undefined) fail('input', `an nrtl card needs "a12" and/or "b12" (tau12 = a12 + b12 / T)`);
+    if (a21 === undefined && b21 === undefined) fail('input', `an nrtl card needs "a21" and/or "b21" (tau21 = a21 + b21 / T)`);
+    if (alpha === undefined) fail('input', `an nrtl card needs "alpha" (non-randomness, typically 0.2 to 0.47)`);
+    return {
+      model: nrtl({ a12: a12 ?? 0, b12: b12 ?? 0, a21: a21 ?? 0, b21: b21 ?? 0, alpha }),
+      description: `NRTL, tau12 = ${a12 ?? 0} + ${b12 ?? 0}/T, tau21 = ${a21 ?? 0} + ${b21 ?? 0}/T, alpha = ${alpha} (T in K)`,
+    };
+  },
+};

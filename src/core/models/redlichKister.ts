@@ -1,5 +1,6 @@
 import { R } from '../constants';
 import { fail } from '../errors';
+import { signed, type CardValues, type ModelFamily } from '../family';
 import type { BinaryModel, Isotherm } from '../model';
 
 /** One Redlich–Kister term: L_k(T) = a + b T + c T ln T (a in J/mol, b and c in J/(mol K)). */
@@ -23,8 +24,6 @@ export function redlichKister(terms: readonly RedlichKisterTerm[]): BinaryModel 
   const frozen = terms.map((t) => ({ a: t.a, b: t.b, c: t.c }));
   const key = 'RK:' + frozen.map((t) => `${t.a},${t.b},${t.c}`).join(';');
   return {
-    family: 'redlich-kister',
-    components: 2,
     key,
     at: (T) => redlichKisterAt(frozen, T),
   };
@@ -35,11 +34,70 @@ export function regularSolution(omega: number): BinaryModel {
   return redlichKister([{ a: omega, b: 0, c: 0 }]);
 }
 
-/** L_k(T) for every term. */
-export function coefficientsAt(terms: readonly RedlichKisterTerm[], T: number): number[] {
-  const lnT = Math.log(T);
-  return terms.map((t) => t.a + t.b * T + t.c * T * lnT);
+/** The regular solution in words: "regular solution, omega = 21 kJ/mol" (omega in that unit). */
+export function describeRegular(omega: number, energyName: string): string {
+  return `regular solution, omega = ${omega} ${energyName}`;
 }
+
+/**
+ * Redlich–Kister terms in words (a, b, c in the given energy unit): "Redlich–Kister, 2 terms:
+ * L0 = 21.5 - 0.0042 T; L1 = 3.1 (kJ/mol, T in K)".
+ */
+export function describeRedlichKister(terms: readonly RedlichKisterTerm[], energyName: string): string {
+  const n = terms.length;
+  const words = terms.map((t, k) => `L${k} = ${t.a}${signed(t.b, 'T')}${signed(t.c, 'T ln T')}`);
+  return `Redlich–Kister, ${n} term${n > 1 ? 's' : ''}: ${words.join('; ')} (${energyName}, T in K)`;
+}
+
+/** Cards `model | regular`: one interaction energy omega. */
+export const regularFamily: ModelFamily = {
+  name: 'regular',
+  aliases: [],
+  keys: ['omega'],
+  composition: 'mole fraction',
+  keyRows: [{ keys: ['omega'], meaning: 'interaction energy, in the card\'s energy unit' }],
+  fromCard(card) {
+    const omega = card.num('omega');
+    if (omega === undefined) fail('input', 'a regular card needs "omega" (the interaction energy)');
+    return { model: regularSolution(omega * card.energy.toJoulePerMole), description: describeRegular(omega, card.energy.name) };
+  },
+};
+
+/** Key L<k> or L<k>.b / L<k>.c in any case (L<k>.a is L<k>), in our spelling. */
+function termKey(raw: string): string | undefined {
+  const m = /^l(\d+)(?:\.([abc]))?$/i.exec(raw);
+  if (!m) return undefined;
+  return m[2] && m[2].toLowerCase() !== 'a' ? `L${Number(m[1])}.${m[2].toLowerCase()}` : `L${Number(m[1])}`;
+}
+
+/** Cards `model | redlich-kister` (or rk): L0, L0.b, L0.c, L1, ... */
+export const redlichKisterFamily: ModelFamily = {
+  name: 'redlich-kister',
+  aliases: ['rk'],
+  keys: ['L0', 'L0.b', 'L0.c'],
+  moreKeys: { canonical: termKey, note: 'L1, L2, ... for more terms' },
+  composition: 'mole fraction',
+  keyRows: [
+    { keys: ['L0', 'L1', '...'], meaning: 'constant part a of L_k, energy unit' },
+    { keys: ['L0.b', 'L0.c', '...'], meaning: 'b and c of L_k = a + b T + c T ln T, energy unit per K (T in K)' },
+  ],
+  fromCard(card: CardValues) {
+    const orders = card.keys.filter((k) => termKey(k) === k).map((k) => Number(/^L(\d+)/.exec(k)![1]));
+    if (orders.length === 0) fail('input', 'a redlich-kister card needs at least "L0"');
+    const n = Math.max(...orders) + 1;
+    const J = card.energy.toJoulePerMole;
+    const given: RedlichKisterTerm[] = [];
+    for (let k = 0; k < n; k++) {
+      const a = card.num(`L${k}`), b = card.num(`L${k}.b`), c = card.num(`L${k}.c`);
+      if (a === undefined && b === undefined && c === undefined) fail('input', `L${k} is missing while L${n - 1} is given: write L${k} | 0 for a term that is zero`);
+      given.push({ a: a ?? 0, b: b ?? 0, c: c ?? 0 });
+    }
+    return {
+      model: redlichKister(given.map((t) => ({ a: t.a * J, b: t.b * J, c: t.c * J }))),
+      description: describeRedlichKister(given, card.energy.name),
+    };
+  },
+};
 
 function redlichKisterAt(terms: readonly RedlichKisterTerm[], T: number): Isotherm {
   const L = new Float64Array(terms.length);

@@ -4,7 +4,52 @@
 // https://localhost:3000/help/<ID>.html` in a function's JSDoc opens its page from Excel.
 'use strict';
 
+const fs = require('fs');
+const path = require('path');
+
 const NAMESPACE = 'MIXGAP';
+
+/**
+ * The model families of src/core/models/index.ts, loaded from their TypeScript sources at build
+ * time (each file transpiled on its own by the TypeScript compiler the build already uses; the
+ * registry's files import only each other and plain core modules).
+ */
+function loadFamilies() {
+  const ts = require('typescript');
+  const cache = new Map();
+  const load = (file) => {
+    if (cache.has(file)) return cache.get(file).exports;
+    const module = { exports: {} };
+    cache.set(file, module);
+    const source = fs.readFileSync(file, 'utf8');
+    const { outputText } = ts.transpileModule(source, { compilerOptions: { module: ts.ModuleKind.CommonJS, target: ts.ScriptTarget.ES2020 } });
+    const localRequire = (name) => {
+      if (!name.startsWith('.')) return require(name);
+      const base = path.resolve(path.dirname(file), name);
+      const found = [`${base}.ts`, path.join(base, 'index.ts')].find((f) => fs.existsSync(f));
+      if (!found) throw new Error(`help pages: cannot find ${name} from ${file}`);
+      return load(found);
+    };
+    new Function('exports', 'require', 'module', outputText)(module.exports, localRequire, module);
+    return module.exports;
+  };
+  return load(path.join(__dirname, '..', '..', 'core', 'models', 'index.ts')).FAMILIES;
+}
+
+/** Plain text of the registry with `_k`, `_ij` as subscripts. */
+const withSubscripts = (text) => escapeHtml(text).replace(/_([A-Za-z0-9]+)/g, '<sub>$1</sub>');
+
+/** The rows of the card-key table: one per key row of each model family. */
+function familyRows(families) {
+  const keys = (list) => list.map((k) => (k === '...' ? '…' : `<code>${escapeHtml(k)}</code>`)).join(', ');
+  return families.flatMap((f) => f.keyRows.map((r) => `  <tr><td>${keys(r.keys)}</td><td>${escapeHtml(f.name)}</td><td>${withSubscripts(r.meaning)}</td></tr>`));
+}
+
+/** The model row: every family's name (and its aliases). */
+function modelRow(families) {
+  const names = families.map((f) => `<code>${escapeHtml(f.name)}</code>${f.aliases.length ? ` (or ${f.aliases.map((a) => `<code>${escapeHtml(a)}</code>`).join(', ')})` : ''}`);
+  return `  <tr><td><code>model</code></td><td>all</td><td>${names.join(', ')}</td></tr>`;
+}
 
 const escapeHtml = (text) => String(text)
   .replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
@@ -29,7 +74,7 @@ th { background: #eef2f7; }
 .caution { border-left: 4px solid #c0392b; padding: .3rem .8rem; background: #fdf3f2; }
 nav a { margin-right: .8rem; }`;
 
-const UNITS = `
+const units = (families) => `
 <h2>Units</h2>
 <ul>
   <li><b>Temperatures</b> are in kelvin, unless the parameter card has the row <code>temperature | °C</code>: then every temperature the functions read and return is in degrees Celsius. Temperatures inside model parameters (the <code>b</code> of L<sub>k</sub>, <code>chi.B</code>, <code>b12</code>, <code>b21</code>) are always in kelvin.</li>
@@ -39,14 +84,11 @@ const UNITS = `
 <h2>Parameter cards</h2>
 <p>The <code>params</code> argument is a two-column range of keys and values, for example <code>Card!$A$1:$B$5</code>, or a single number (a regular solution's Omega in J/mol), or rows of Redlich–Kister a, b, c (J/mol, J/(mol K), J/(mol K)).</p>
 <table>
-  <tr><th>key</th><th>value</th></tr>
-  <tr><td><code>model</code></td><td><code>regular</code>, <code>redlich-kister</code>, <code>flory-huggins</code> or <code>nrtl</code></td></tr>
-  <tr><td><code>omega</code></td><td>regular solution: interaction energy [energy unit]</td></tr>
-  <tr><td><code>L0</code>, <code>L1</code>, …; <code>L0.b</code>, <code>L0.c</code>, …</td><td>Redlich–Kister: L<sub>k</sub> = a + b T + c T ln T [energy unit; energy unit per K]</td></tr>
-  <tr><td><code>NA</code>, <code>NB</code>, <code>chi.A</code>, <code>chi.B</code></td><td>Flory–Huggins: chain lengths; chi = chi.A + chi.B / T [–, K]</td></tr>
-  <tr><td><code>a12</code>, <code>b12</code>, <code>a21</code>, <code>b21</code>, <code>alpha</code></td><td>NRTL: tau<sub>ij</sub> = a<sub>ij</sub> + b<sub>ij</sub> / T [–, K], non-randomness alpha [–]</td></tr>
-  <tr><td><code>energy</code>, <code>temperature</code></td><td>units, see above</td></tr>
-  <tr><td><code>name A</code>, <code>name B</code></td><td>names of the components, used in messages</td></tr>
+  <tr><th>key</th><th>model</th><th>value</th></tr>
+${modelRow(families)}
+${familyRows(families).join('\n')}
+  <tr><td><code>energy</code>, <code>temperature</code></td><td>all</td><td>units, see above</td></tr>
+  <tr><td><code>name A</code>, <code>name B</code></td><td>all</td><td>names of the components, used in messages</td></tr>
 </table>
 <p><code>=${NAMESPACE}.CHECKCARD(range)</code> says in one line how a card was read.</p>
 <h2>Errors</h2>
@@ -76,7 +118,7 @@ ${body}
 }
 
 /** One help page for a function of functions.json. */
-function functionPage(f) {
+function functionPage(f, families) {
   const rows = f.parameters.map((p) => `  <tr><td><code>${escapeHtml(p.name)}</code></td><td>${p.optional ? 'optional' : 'required'}</td><td>${escapeHtml(kindOf(p))}</td><td>${escapeHtml(p.description || '')}</td></tr>`);
   const result = f.result && f.result.dimensionality === 'matrix'
     ? 'A table: the formula spills over the cells below and to the right of it.'
@@ -91,23 +133,23 @@ ${rows.join('\n')}
 </table>
 <h2>Result</h2>
 <p>${result}</p>
-${UNITS}`);
+${units(families)}`);
 }
 
-function indexPage(functions) {
+function indexPage(functions, families) {
   const items = functions.map((f) => `  <tr><td><a href="${encodeURIComponent(f.id.toUpperCase())}.html"><code>${NAMESPACE}.${escapeHtml(f.name)}</code></a></td><td>${escapeHtml((f.description || '').replace(/\s+/g, ' ').trim())}</td></tr>`);
   return page('Mixgap functions', `<h1>Mixgap cell functions</h1>
 <table>
   <tr><th>function</th><th>what it gives</th></tr>
 ${items.join('\n')}
 </table>
-${UNITS}`);
+${units(families)}`);
 }
 
 /** File name (under help/) -> HTML, for the functions of a functions.json. */
-function helpPages(metadata) {
-  const pages = { 'index.html': indexPage(metadata.functions) };
-  for (const f of metadata.functions) pages[`${f.id.toUpperCase()}.html`] = functionPage(f);
+function helpPages(metadata, families = loadFamilies()) {
+  const pages = { 'index.html': indexPage(metadata.functions, families) };
+  for (const f of metadata.functions) pages[`${f.id.toUpperCase()}.html`] = functionPage(f, families);
   return pages;
 }
 
@@ -136,4 +178,4 @@ class HelpPagesPlugin {
   }
 }
 
-module.exports = { HelpPagesPlugin, helpPages };
+module.exports = { HelpPagesPlugin, helpPages, loadFamilies };

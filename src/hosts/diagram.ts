@@ -9,6 +9,8 @@ import { createRequire } from 'module';
 import path from 'path';
 import { Resvg } from '@resvg/resvg-js';
 import type { HyperFormula } from 'hyperformula';
+import { system, type System } from '../functions/args';
+import { isCard } from '../functions/card';
 import type { CustomFunctionsMetadata } from './engine';
 import { evaluateFormulas } from './evaluate';
 import type { FormulaResult, ResultCell } from './evaluate';
@@ -72,8 +74,7 @@ function numberOf(r: FormulaResult, what: string): number {
 
 /** The card with its temperature unit replaced (added when missing). */
 export function withTemperatureUnit(grid: CardGrid, unit: string): CardGrid {
-  const isCard = grid.some((row) => typeof row[0] === 'string' && row[0].trim() !== '');
-  if (!isCard) throw new Error('a temperature unit can only be chosen for a parameter card (key | value rows), not for bare parameters, which are in kelvin');
+  if (!isCard(grid)) throw new Error('a temperature unit can only be chosen for a parameter card (key | value rows), not for bare parameters, which are in kelvin');
   const rows = grid.filter((row) => !(typeof row[0] === 'string' && row[0].trim().toLowerCase() === 'temperature'));
   return [...rows, ['temperature', unit]];
 }
@@ -118,7 +119,10 @@ export function diagramData(metadata: CustomFunctionsMetadata, grid: CardGrid, o
       });
     }
 
-    const unit = /temperatures in (°C|K)\b/.exec(description)?.[1] ?? 'K';
+    // Units, names and the composition variable from the card as the functions read it (the same
+    // reading CHECKCARD made just above), never from CHECKCARD's sentence.
+    const labels = diagramLabels(system(card));
+    const unit = labels.temperatureUnit;
     const { tmin, tmax } = temperatureRange(critical, unit, options);
     const rows = options.rows ?? 201;
     if (!(Number.isInteger(rows) && rows >= 2 && rows <= 10000)) throw new Error(`rows = ${rows}: give a whole number from 2 to 10000`);
@@ -150,9 +154,6 @@ export function diagramData(metadata: CustomFunctionsMetadata, grid: CardGrid, o
       points.push(...found);
     }
 
-    const names = /; A = (.*?), B = (.*?);/.exec(description);
-    const nameB = names ? names[2] : 'B';
-    const fraction = /volume fraction/.test(description) ? 'Volume fraction' : 'Mole fraction';
     return {
       points,
       critical: critical.filter((c) => c.T >= tmin && c.T <= tmax),
@@ -160,13 +161,24 @@ export function diagramData(metadata: CustomFunctionsMetadata, grid: CardGrid, o
       tmin,
       tmax,
       temperatureUnit: unit,
-      compositionLabel: `${fraction} of ${nameB}`,
-      title: options.title ?? (names ? `Miscibility gap, ${names[1]}–${names[2]}` : 'Miscibility gap'),
+      compositionLabel: labels.compositionLabel,
+      title: options.title ?? labels.title,
       card: description,
     };
   } finally {
     engine.destroy();
   }
+}
+
+/** The picture's labels from the structured system: temperature unit, composition axis, title. */
+export function diagramLabels(sys: System): { temperatureUnit: string; compositionLabel: string; title: string } {
+  const named = sys.names.A !== 'A' || sys.names.B !== 'B';
+  const fraction = sys.composition.charAt(0).toUpperCase() + sys.composition.slice(1);
+  return {
+    temperatureUnit: sys.temperature.name,
+    compositionLabel: `${fraction} of ${sys.names.B}`,
+    title: named ? `Miscibility gap, ${sys.names.A}–${sys.names.B}` : 'Miscibility gap',
+  };
 }
 
 /**

@@ -10,7 +10,8 @@ import path from 'path';
 import { PNG } from 'pngjs';
 import { describe, expect, test } from 'vitest';
 import * as fns from '../../src/functions/index';
-import { diagramData, diagramSpec, renderPng, renderSvg } from '../../src/hosts/diagram';
+import { system } from '../../src/functions/args';
+import { diagramData, diagramLabels, diagramSpec, renderPng, renderSvg } from '../../src/hosts/diagram';
 import type { CardGrid } from '../../src/hosts/diagram';
 
 const root = path.join(__dirname, '..', '..');
@@ -62,6 +63,18 @@ describe('diagram data', () => {
     expect(data.temperatureUnit).toBe('°C');
     expect(data.compositionLabel).toBe('Mole fraction of Bexium');
     expect(data.title).toBe('Miscibility gap, Avarite–Bexium');
+  });
+
+  test('the labels come from the card as read, not from the wording of its CHECKCARD line', () => {
+    // A description that says the opposite of the card in every respect the old sentence-matching
+    // looked for (unit, names, volume fraction) leaves the labels as the structured fields say.
+    const sys = system(card);
+    const misleading = { ...sys, description: 'NRTL; composition = volume fraction of Q; temperatures in K; A = P, B = Q; upper critical point' };
+    expect(diagramLabels(misleading)).toEqual(diagramLabels(sys));
+    expect(diagramLabels(misleading)).toEqual({ temperatureUnit: '°C', compositionLabel: 'Mole fraction of Bexium', title: 'Miscibility gap, Avarite–Bexium' });
+    // and the structured fields do move them: a Flory–Huggins card is drawn in volume fractions
+    const fh = diagramLabels(system([['model', 'fh'], ['NA', 1], ['NB', 50], ['chi.B', 400], ['name B', 'resin']]));
+    expect(fh).toEqual({ temperatureUnit: 'K', compositionLabel: 'Volume fraction of resin', title: 'Miscibility gap, A–resin' });
   });
 
   test('another temperature unit redraws the card in it', () => {

@@ -6,12 +6,10 @@ import { MixgapError } from '../core/errors';
 import { describeRedlichKister, describeRegular, redlichKister, type RedlichKisterTerm } from '../core/models/redlichKister';
 import { JOULE_PER_MOLE, KELVIN } from '../core/units';
 import { isCard, readCard, unitNote, type System } from './card';
+import { isEmpty, numberText, type CellValue } from './cells';
 import { CellFailure, toHostError, type Cell } from './errors';
 
-/** A cell value as hosts hand it over: empty cells arrive as null, undefined or ''. */
-export type CellValue = number | string | boolean | null | undefined;
-
-const isEmpty = (v: unknown) => v === null || v === undefined || v === '';
+export type { CellValue } from './cells';
 
 /** Runs a cell function body: core failures become the cell error that fits, with their message. */
 export function cell<T>(body: () => T): T {
@@ -124,6 +122,7 @@ function readSystem(params: unknown): System {
   const grid: CellValue[][] = Array.isArray(params)
     ? (params as unknown[]).map((row) => (Array.isArray(row) ? (row as CellValue[]) : [row as CellValue]))
     : [[params as CellValue]];
+  refuseText(grid);
   if (isCard(grid)) return readCard(grid);
   const rows = grid.slice();
   while (rows.length > 0 && rows[rows.length - 1].every(isEmpty)) rows.pop();
@@ -151,6 +150,26 @@ function readSystem(params: unknown): System {
   const words = regular ? describeRegular(terms[0].a, JOULE_PER_MOLE.name) : describeRedlichKister(terms, JOULE_PER_MOLE.name);
   const description = `${words}; ${unitNote(JOULE_PER_MOLE, KELVIN)}`;
   return { model, energy: JOULE_PER_MOLE, temperature: KELVIN, names: { A: 'A', B: 'B' }, composition: 'mole fraction', description };
+}
+
+/**
+ * Text that is not a card: a single text (the number "21000" typed into a text cell, or a word),
+ * a column of texts without values, or Redlich–Kister rows stored as text. Says what to give.
+ */
+function refuseText(grid: CellValue[][]): void {
+  const cells = grid.flatMap((row) => row.filter((v) => !isEmpty(v)));
+  const firstColumn = grid.map((row) => row[0]).filter((v) => !isEmpty(v));
+  const texts = firstColumn.filter((v): v is string => typeof v === 'string');
+  if (texts.length === 0 || texts.some((t) => t.trim().toLowerCase() === 'model')) return;
+  const instead = 'give Omega as a number (21000, not "21000"), a range of Redlich–Kister rows a, b, c (numbers), or a parameter card (a two-column range of keys and values, such as model | regular and omega | 21000)';
+  const shown = JSON.stringify(texts[0]);
+  if (cells.length === firstColumn.length && cells.every((v) => typeof v === 'string')) {
+    const stored = numberText(texts[0]) !== undefined ? ' (a number stored as text)' : '';
+    throw new CellFailure('#VALUE!', `params is text${stored}: ${shown}${cells.length > 1 ? ` and ${cells.length - 1} more` : ''}; ${instead}`);
+  }
+  if (firstColumn.every((v) => typeof v === 'number' || (typeof v === 'string' && numberText(v) !== undefined))) {
+    throw new CellFailure('#VALUE!', `params holds numbers stored as text (${shown}): make them numbers (a CSV import or a text-formatted cell keeps them as text), or give a parameter card`);
+  }
 }
 
 /** A temperature argument in the system's unit, returned in kelvin (above 0 K). */

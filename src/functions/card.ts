@@ -14,6 +14,7 @@ import { orList, owns, type CardValues, type ModelFamily } from '../core/family'
 import type { BinaryModel } from '../core/model';
 import { FAMILIES, familyNamed } from '../core/models';
 import { energyUnit, temperatureUnit, type EnergyUnit, type TemperatureUnit } from '../core/units';
+import { isEmpty, numberText } from './cells';
 import { CellFailure } from './errors';
 
 export interface System {
@@ -44,21 +45,49 @@ function canonicalKey(raw: string): string {
   }
   return ALL_KEYS.find((known) => known.toLowerCase() === k.toLowerCase()) ?? k;
 }
+
+/** Whether a cell holds a key some card may have. */
+function isKey(v: unknown): boolean {
+  if (typeof v !== 'string') return false;
+  const key = canonicalKey(v);
+  return COMMON.includes(key) || FAMILIES.some((f) => owns(f, key));
+}
+
+const isTitle = (key: unknown, value: unknown) =>
+  typeof key === 'string' && key.trim().toLowerCase() === 'key' && typeof value === 'string' && value.trim().toLowerCase() === 'value';
+
+/**
+ * The key/value pairs of a card range, with where each came from. A card is two columns (key,
+ * value); one laid out in two rows (keys in the first, values in the second, `model` among the
+ * keys) is read column by column. A title row (or column) `key | value` is skipped.
+ */
+function cardEntries(grid: unknown[][]): Array<{ key: unknown; value: unknown; rest: unknown[]; where: string }> {
+  const filled = grid.filter((row) => !row.every(isEmpty));
+  const head = filled[0]?.filter((v, j) => !isEmpty(v) && !(j === 0 && isTitle(v, filled[1]?.[0])));
+  const inRows = filled.length === 2 && head.length >= 2 && head.every(isKey) && head.some((v) => canonicalKey(v as string) === 'model');
+  let pairs: Array<{ key: unknown; value: unknown; rest: unknown[]; where: string }>;
+  if (inRows) {
+    const width = Math.max(filled[0].length, filled[1].length);
+    pairs = Array.from({ length: width }, (_, j) => ({ key: filled[0][j], value: filled[1][j], rest: [], where: `column ${j + 1}` }));
+  } else {
+    pairs = grid.map((row, i) => ({ key: row[0], value: row[1], rest: row.slice(2), where: `row ${i + 1}` }));
+  }
+  pairs = pairs.filter((p) => !(isEmpty(p.key) && isEmpty(p.value) && p.rest.every(isEmpty)));
+  if (pairs.length > 0 && isTitle(pairs[0].key, pairs[0].value) && pairs[0].rest.every(isEmpty)) pairs.shift();
+  return pairs;
+}
+
 /** Whether a range looks like a card: some cell of its first column holds text. */
 export function isCard(grid: unknown[][]): boolean {
   return grid.some((row) => typeof row[0] === 'string' && row[0].trim() !== '');
 }
 
-const isEmpty = (v: unknown) => v === null || v === undefined || v === '';
-
-/** Reads a card (a range of key/value rows) into a system. */
+/** Reads a card (a range of key/value rows, or of a key row and a value row) into a system. */
 export function readCard(grid: unknown[][]): System {
   const entries = new Map<string, unknown>();
-  grid.forEach((row, i) => {
-    if (row.every(isEmpty)) return;
-    if (row.slice(2).some((v) => !isEmpty(v))) throw bad(`row ${i + 1} has more than two cells: a card has a key column and a value column`);
-    const [rawKey, value] = row;
-    if (typeof rawKey !== 'string' || rawKey.trim() === '') throw bad(`row ${i + 1} has no key in its first cell (found ${JSON.stringify(rawKey ?? '')})`);
+  cardEntries(grid).forEach(({ key: rawKey, value, rest, where }) => {
+    if (rest.some((v) => !isEmpty(v))) throw bad(`${where} has more than two cells: a card has a key column and a value column`);
+    if (typeof rawKey !== 'string' || rawKey.trim() === '') throw bad(`${where} has no key in its first cell (found ${JSON.stringify(rawKey ?? '')})`);
     const key = canonicalKey(rawKey);
     if (entries.has(key)) throw bad(`the key "${key}" appears twice: keep one`);
     if (isEmpty(value)) throw bad(`"${key}" has no value: fill the cell beside it or remove the row`);
@@ -74,6 +103,8 @@ export function readCard(grid: unknown[][]): System {
   const num = (key: string): number | undefined => {
     const v = entries.get(key);
     if (v === undefined) return undefined;
+    // a number stored as text ("21000", as a CSV import leaves it) is the number
+    if (typeof v === 'string' && numberText(v) !== undefined) return numberText(v);
     if (typeof v !== 'number') throw bad(`"${key}" must be a number (got ${JSON.stringify(v)})`);
     if (!Number.isFinite(v)) throw bad(`"${key}" must be a finite number (got ${String(v)})`);
     return v;

@@ -8,19 +8,33 @@ import { parse } from 'csv-parse/sync';
 import ExcelJS from 'exceljs';
 import { DetailedCellError } from 'hyperformula';
 import type { HyperFormula } from 'hyperformula';
+import { numberText } from '../functions/cells';
 import type { CardGrid } from './diagram';
 import type { CustomFunctionsMetadata } from './engine';
 import { evaluateFormulas } from './evaluate';
 import { buildMixgapEngine } from './mixgap-engine';
 import { a1, evaluateWorkbook, parseRange, WORKBOOK_ENGINE_CONFIG } from './workbook';
 
-const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
-
 /** A CSV cell: a number when it reads as one, otherwise the text; an empty cell is null. */
 function csvValue(text: string): string | number | null {
   const t = text.trim();
   if (t === '') return null;
-  return NUMBER.test(t) ? Number(t) : t;
+  return numberText(t) ?? t;
+}
+
+/**
+ * A card saved with semicolons between its cells (what a spreadsheet set to a language with
+ * decimal commas writes as CSV): the first cell of every row holds a ';'. Such a file is refused
+ * with what to do, rather than guessed at (its numbers may carry decimal commas).
+ */
+function refuseSemicolons(records: string[][]): void {
+  const rows = records.filter((r) => r.some((c) => c.trim() !== ''));
+  if (rows.length > 0 && rows.every((r) => r[0].includes(';'))) {
+    throw new Error(
+      'the card file separates its cells with ";", not ",": save it as CSV with commas (key,value on each line, ' +
+        'a point as decimal separator: 21.5, not 21,5), or give the workbook with --range',
+    );
+  }
 }
 
 /**
@@ -29,6 +43,7 @@ function csvValue(text: string): string | number | null {
  */
 export function parseCardCsv(text: string): CardGrid {
   const records = parse(text, { skip_empty_lines: true, relax_column_count: true, comment: '#', bom: true }) as string[][];
+  refuseSemicolons(records);
   const rows = records.map((r) => r.map(csvValue)).filter((r) => r.some((v) => v !== null));
   if (rows.length > 0 && String(rows[0][0]).toLowerCase() === 'key' && String(rows[0][1]).toLowerCase() === 'value') rows.shift();
   if (rows.length === 0) throw new Error('the card file has no key,value rows');

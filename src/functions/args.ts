@@ -6,7 +6,7 @@ import { MixgapError } from '../core/errors';
 import { describeRedlichKister, describeRegular, redlichKister, type RedlichKisterTerm } from '../core/models/redlichKister';
 import { JOULE_PER_MOLE, KELVIN } from '../core/units';
 import { isCard, readCard, unitNote, type System } from './card';
-import { isEmpty, numberText, type CellValue } from './cells';
+import { choice, gridNumber, isEmpty, numberText, toGrid, type CellValue } from './cells';
 import { CellFailure, toHostError, type Cell } from './errors';
 
 export type { CellValue } from './cells';
@@ -68,12 +68,9 @@ export function ordinal(value: unknown, name: string): number {
   return n;
 }
 
-/** The two sides of a gap, as a user names them. */
+/** Which phase (or side of a gap) an optional argument names: "low" or "high"; "high" when omitted. */
 export function phaseSide(value: unknown): 'low' | 'high' {
-  if (isEmpty(value)) return 'high';
-  const text = typeof value === 'string' ? value.trim().toLowerCase() : '';
-  if (text === 'low' || text === 'high') return text;
-  throw new CellFailure('#VALUE!', `phase = ${JSON.stringify(value)}: write "low" (the A-rich phase) or "high" (the B-rich phase)`);
+  return choice(value, 'phase', { low: 'the A-rich phase', high: 'the B-rich phase' }, 'high');
 }
 
 export type { System } from './card';
@@ -119,9 +116,7 @@ function fingerprint(params: unknown): string {
 }
 
 function readSystem(params: unknown): System {
-  const grid: CellValue[][] = Array.isArray(params)
-    ? (params as unknown[]).map((row) => (Array.isArray(row) ? (row as CellValue[]) : [row as CellValue]))
-    : [[params as CellValue]];
+  const grid = toGrid(params);
   refuseText(grid);
   if (isCard(grid)) return readCard(grid);
   const rows = grid.slice();
@@ -136,12 +131,7 @@ function readSystem(params: unknown): System {
     }
     const [a, b, c] = [0, 1, 2].map((col) => {
       const v = row[col];
-      if (isEmpty(v)) return 0;
-      if (typeof v !== 'number') {
-        throw new CellFailure('#VALUE!', `params row ${k + 1}, column ${col + 1} holds ${JSON.stringify(v)}: every parameter must be a number`);
-      }
-      if (!Number.isFinite(v)) throw new CellFailure('#NUM!', `params row ${k + 1}, column ${col + 1} is not a finite number`);
-      return v;
+      return isEmpty(v) ? 0 : gridNumber(v, `params row ${k + 1}, column ${col + 1}`, 'every parameter must be a number');
     });
     return { a, b, c };
   });

@@ -39,7 +39,7 @@ export function gridNumber(v: unknown, where: string, fix = 'give a number'): nu
  * One of a few words (any case, spaces around ignored): `words` maps each word as written to what
  * it means, for the message. An empty cell gives `fallback`; without one it is refused too.
  */
-export function choice<W extends string>(value: unknown, name: string, words: Readonly<Record<W, string>>, fallback?: W): W {
+export function choice<W extends string>(value: unknown, name: string, words: Readonly<Record<W, string>>, fallback?: NoInfer<W>): W {
   if (isEmpty(value) && fallback !== undefined) return fallback;
   const text = typeof value === 'string' ? value.trim().toLowerCase() : undefined;
   const found = (Object.keys(words) as W[]).find((w) => w.toLowerCase() === text);

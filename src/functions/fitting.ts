@@ -12,12 +12,10 @@ import { fitCriticalPoint } from '../core/fit/criticalPoint';
 import { fitNrtlSolubilities } from '../core/fit/nrtlSolubility';
 import { fitTieLines as fitTieLinesCore, type TieLine, type TieLineFit } from '../core/fit/tieLines';
 import { massFraction, massPhaseFractions, molarMass as formulaMass, moleFraction } from '../core/composition';
-import { cell, cellOf, fraction, number, ordinal, system, temperatureIn, type CellValue } from './args';
+import { cell, cellOf, fraction, number, ordinal, phaseSide, system, temperatureIn } from './args';
+import { choice, gridNumber, isEmpty, toGrid } from './cells';
 import { CellFailure } from './errors';
 import { MAX_FIT_TERMS } from './shapes';
-
-
-const isEmpty = (v: unknown) => v === null || v === undefined || v === '';
 
 /**
  * Redlich–Kister coefficients fitted to measured tie-lines (T, x', x''): equal chemical potentials
@@ -252,9 +250,7 @@ function tieLineFit(data: unknown, terms: unknown, slopes: unknown): TieLineFit 
 
 /** Reads the tie-line range: rows T, x', x''; empty rows skipped; a first row of titles skipped. */
 function tieLines(data: unknown): TieLine[] {
-  const grid: CellValue[][] = Array.isArray(data)
-    ? (data as unknown[]).map((row) => (Array.isArray(row) ? (row as CellValue[]) : [row as CellValue]))
-    : [[data as CellValue]];
+  const grid = toGrid(data);
   const out: TieLine[] = [];
   grid.forEach((row, i) => {
     if (row.every(isEmpty)) return;
@@ -266,8 +262,7 @@ function tieLines(data: unknown): TieLine[] {
       const v = row[c];
       const name = ['T', "x'", "x''"][c];
       if (isEmpty(v)) throw new CellFailure('#VALUE!', `data row ${i + 1}: ${name} is empty; each row needs T, x' and x''`);
-      if (typeof v !== 'number' || !Number.isFinite(v)) throw new CellFailure('#VALUE!', `data row ${i + 1}: ${name} holds ${JSON.stringify(v)}; give a number`);
-      return v;
+      return gridNumber(v, `data row ${i + 1}: ${name}`);
     });
     const [T, x1, x2] = cells;
     if (!(T > 0)) throw new CellFailure('#NUM!', `data row ${i + 1}: T = ${T} K is not above 0 K`);
@@ -283,7 +278,7 @@ function tieLines(data: unknown): TieLine[] {
 
 /** TRUE/FALSE for all terms, or one per term. */
 function slopeFlags(value: unknown, terms: number): boolean[] {
-  const flat = (Array.isArray(value) ? (value as unknown[]).flat() : [value]).filter((v) => !isEmpty(v));
+  const flat = toGrid(value).flat().filter((v) => !isEmpty(v));
   const flag = (v: unknown): boolean => {
     if (typeof v === 'boolean') return v;
     if (v === 0 || v === 1) return v === 1;
@@ -298,28 +293,16 @@ function slopeFlags(value: unknown, terms: number): boolean[] {
 }
 
 function resultKind(value: unknown): 'coefficients' | 'errors' {
-  if (isEmpty(value)) return 'coefficients';
-  const text = typeof value === 'string' ? value.trim().toLowerCase() : '';
-  if (text === 'coefficients' || text === 'errors') return text;
-  throw new CellFailure('#VALUE!', `result = ${JSON.stringify(value)}: write "coefficients" or "errors"`);
+  return choice(value, 'result', { coefficients: '', errors: '' }, 'coefficients');
 }
 
 function nrtlForm(value: unknown): '1/T' | 'constant' {
-  if (isEmpty(value)) return '1/T';
-  const text = typeof value === 'string' ? value.trim().toLowerCase() : '';
-  if (text === '1/t') return '1/T';
-  if (text === 'constant') return 'constant';
-  throw new CellFailure('#VALUE!', `form = ${JSON.stringify(value)}: write "1/T" (tau = b/T) or "constant" (tau = a)`);
+  return choice(value, 'form', { '1/T': 'tau = b/T', constant: 'tau = a' }, '1/T');
 }
 
+/** The side of a measured gap boundary (required). */
 function requiredSide(value: unknown): 'low' | 'high' {
-  const text = typeof value === 'string' ? value.trim().toLowerCase() : '';
-  if (text === 'low' || text === 'high') return text;
-  throw new CellFailure('#VALUE!', `phase = ${JSON.stringify(value ?? '')}: write "low" (the A-rich boundary x') or "high" (the B-rich boundary x'')`);
-}
-
-function optionalSide(value: unknown): 'low' | 'high' {
-  return isEmpty(value) ? 'high' : requiredSide(value);
+  return choice(value, 'phase', { low: "the A-rich boundary x'", high: "the B-rich boundary x''" });
 }
 
 /** A fraction from 0 to 1 inclusive. */
@@ -347,7 +330,7 @@ function molarMassOf(value: unknown, name: string): number {
 }
 
 function massSplit(x0: unknown, xLow: unknown, xHigh: unknown, A: unknown, B: unknown, phase: unknown): number {
-  const side = optionalSide(phase);
+  const side = phaseSide(phase);
   const x = unit(x0, 'x0'), x1 = unit(xLow, 'xLow'), x2 = unit(xHigh, 'xHigh');
   if (!(x1 < x2)) throw new CellFailure('#NUM!', `xLow = ${x1} must be below xHigh = ${x2}: xLow is the A-rich phase`);
   const f = massPhaseFractions(x, x1, x2, molarMassOf(A, 'A'), molarMassOf(B, 'B'));

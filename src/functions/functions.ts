@@ -12,7 +12,7 @@ import { criticalPoint } from '../core/critical';
 import { criticalPointsOf, equilibriumAt, gapAt, unstableAt } from '../core/equilibrium';
 import { evenTemperatures, gapTable as coreGapTable } from '../core/gapTable';
 import { gapTemperature } from '../core/gapTemperature';
-import { leverFractions } from '../core/leverRule';
+import { phaseFractions } from '../core/leverRule';
 import { activities, decompositionGain, drivingForce, excessGibbs } from '../core/activity';
 import { cell, cellOf, component, energyOut, fraction, number, ordinal, phaseSide, system, temperatureIn, temperatureOut } from './args';
 import { CellFailure } from './errors';
@@ -174,17 +174,8 @@ export function phaseFrac(x0: number, T: number, params: any[][], phase?: string
     const x = fraction(x0, 'x0');
     const side = phaseSide(phase);
     const sys = system(params);
-    const { gaps } = equilibriumAt(sys.model, temperatureIn(sys, T));
-    let high: number;
-    const containing = gaps.find((g) => g.low.x <= x && x <= g.high.x);
-    if (containing) high = leverFractions(x, containing).high;
-    else if (gaps.length === 0) high = x <= 0.5 ? 0 : 1;
-    else {
-      const distance = (g: (typeof gaps)[number]) => (x < g.low.x ? g.low.x - x : x - g.high.x);
-      const nearest = gaps.reduce((a, b) => (distance(b) < distance(a) ? b : a));
-      high = x < nearest.low.x ? 0 : 1;
-    }
-    return side === 'high' ? high : 1 - high;
+    const f = phaseFractions(x, equilibriumAt(sys.model, temperatureIn(sys, T)).gaps);
+    return side === 'high' ? f.high : f.low;
   });
 }
 

@@ -2,7 +2,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import type { Gap } from '../../src/core/binodal';
-import { leverFractions } from '../../src/core/leverRule';
+import { leverFractions, phaseFractions } from '../../src/core/leverRule';
 import { pointAt } from '../../src/core/model';
 
 const gapOf = (x1: number, x2: number): Gap => ({
@@ -49,5 +49,29 @@ describe('lever rule', () => {
       ),
       { seed: 7, numRuns: 2000 },
     );
+  });
+});
+
+describe('phase fractions with several gaps or none', () => {
+  // Outside every gap the material is one phase (spec); which one PHASEFRAC calls it is the rule
+  // its documentation states (README, PHASEFRAC): the side of the nearest gap, or x0 <= 1/2 with no
+  // gap (a naming convention of ours, no published source).
+  const gaps = [gapOf(0.1, 0.3), gapOf(0.6, 0.8)];
+
+  it('inside a gap: the lever rule of that gap', () => {
+    expect(phaseFractions(0.2, gaps)).toEqual(leverFractions(0.2, gaps[0]));
+    expect(phaseFractions(0.7, gaps)).toEqual(leverFractions(0.7, gaps[1]));
+  });
+
+  it('between two gaps: named after the nearer one', () => {
+    expect(phaseFractions(0.35, gaps)).toEqual({ low: 0, high: 1 }); // above the first gap, 0.05 from it
+    expect(phaseFractions(0.55, gaps)).toEqual({ low: 1, high: 0 }); // below the second gap, 0.05 from it
+    expect(phaseFractions(0.05, gaps)).toEqual({ low: 1, high: 0 });
+    expect(phaseFractions(0.95, gaps)).toEqual({ low: 0, high: 1 });
+  });
+
+  it('no gap: "low" up to x0 = 1/2, "high" above', () => {
+    expect(phaseFractions(0.5, [])).toEqual({ low: 1, high: 0 });
+    expect(phaseFractions(0.5000001, [])).toEqual({ low: 0, high: 1 });
   });
 });

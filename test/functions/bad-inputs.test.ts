@@ -95,6 +95,10 @@ const rows: Row[] = [
   // rounding of it) but say that the parameters are too large for this quantity
   { formula: 'ACTIVITY(0.5, 800, 1E12)', call: () => f.activity(0.5, 800, 1e12 as any), code: '#NUM!', message: /too large|overflow/, when: 'a result beyond the range of numbers (parameters far too large)', engine: true },
   { formula: 'ACTCOEF(0.5, 800, 1E12, "A")', call: () => f.actCoef(0.5, 800, 1e12 as any, 'A'), code: '#NUM!', message: /too large|overflow/, when: 'a result beyond the range of numbers (parameters far too large)' },
+  // A chain's activity below the smallest normal double (Flory–Huggins, 10000-mer at phi = 0.1,
+  // chi = 0.55: ln a = -4546.4): not 0, not a subnormal with lost digits, but an error that points to
+  // CHEMPOT, which keeps the logarithm (issue "polymer activities per molecule")
+  { formula: 'ACTIVITY(0.1, 300, FH card with NB = 10000, chi.A = 0.55)', call: () => f.activity(0.1, 300, card(['model', 'fh'], ['NA', 1], ['NB', 10000], ['chi.A', 0.55])), code: '#NUM!', message: /exp\(-4546\.4\), below 2\.2e-308.*CHEMPOT/, when: 'an activity or activity coefficient below 2.2e-308 (long chains): CHEMPOT gives RT ln a' },
   { formula: 'GMIX(0.5, 800, {1E308,1E308})', call: () => f.gMix(0.5, 800, [[1e308, 1e308]]), code: '#NUM!', message: /too large|overflow/, when: 'a result beyond the range of numbers (parameters far too large)' },
   { formula: 'TCRIT(1E12)', call: () => f.tCrit(1e12 as any), code: '#N/A', message: /no critical point between 1 K and 20000 K/, when: 'no critical point in 1 K to 20000 K (Tc = Omega/2R = 6e10 K here)' },
   { formula: 'TCRIT(1E-300)', call: () => f.tCrit(1e-300 as any), code: '#N/A', message: /no critical point between 1 K and 20000 K/, when: 'no critical point in 1 K to 20000 K' },

@@ -30,6 +30,7 @@ export function floryHuggins(p: FloryHugginsParameters): BinaryModel {
     family: 'flory-huggins',
     components: 2,
     key: `FH:${NA},${NB},${A},${B}`,
+    sites: { A: NA, B: NB }, // g is per mole of sites; a molecule of A (B) occupies N_A (N_B) of them
     at: (T) => new FloryHugginsIsotherm(NA, NB, A + B / T, T),
   };
 }

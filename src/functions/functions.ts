@@ -8,13 +8,14 @@
  * Compositions are mole fractions of component B (volume fractions for Flory–Huggins); temperatures
  * are in kelvin and energies in J/mol unless a parameter card says otherwise.
  */
+import { T_SEARCH_MAX, T_SEARCH_MIN } from '../core/constants';
 import { criticalPoint } from '../core/critical';
 import { criticalPointsOf, equilibriumAt, gapAt, unstableAt } from '../core/equilibrium';
 import { evenTemperatures, gapTable as coreGapTable } from '../core/gapTable';
 import { gapTemperature } from '../core/gapTemperature';
 import { leverFractions } from '../core/leverRule';
 import { activities, decompositionGain, drivingForce, excessGibbs, expOfLog } from '../core/activity';
-import { cell, cellOf, component, energyOut, fraction, number, ordinal, phaseSide, system, temperatureIn, temperatureOut } from './args';
+import { asFailure, cell, cellOf, component, energyOut, fraction, number, ordinal, phaseSide, system, temperatureIn, temperatureOut, unitsOf } from './args';
 import { CellFailure } from './errors';
 
 /**
@@ -389,10 +390,10 @@ export function checkCard(params: any[][]): string {
     try {
       const points = criticalPointsOf(sys.model);
       critical = points.length === 0
-        ? 'no critical point between 1 K and 20000 K'
+        ? `no critical point between ${unitsOf(sys).temperature(T_SEARCH_MIN)} and ${unitsOf(sys).temperature(T_SEARCH_MAX)}`
         : points.map((p) => `${p.kind} critical point ${round(temperatureOut(sys, p.T))} ${sys.temperature.name} at x = ${round(p.x)}`).join(', ');
     } catch (e) {
-      critical = `critical points not found: ${e instanceof Error ? e.message : String(e)}`;
+      critical = `critical points not found: ${asFailure(e, sys).message}`;
     }
     return `${sys.description}${names}; ${critical}`;
   });

@@ -226,10 +226,12 @@ export function gMix(x: number, T: number, params: any[][]): number {
 }
 
 /**
- * A chart-ready table of one gap between two temperatures: columns T (K), binodal low, binodal
- * high, spinodal low, spinodal high (mole fractions of B); one row per temperature, evenly spaced.
- * A critical temperature inside the range replaces the nearest row, with the critical
- * composition in all four columns, so the dome closes. Where the gap does not exist, #N/A.
+ * A chart-ready table of one gap between two temperatures: columns T (in the card's temperature
+ * unit, kelvin without a card), binodal low, binodal high, spinodal low, spinodal high (mole
+ * fractions of B); one row per temperature, evenly spaced from T1 to T2. A critical temperature
+ * between T1 and T2 replaces the nearest row other than the first and last (T1 and T2 always
+ * stay), with the critical composition in all four columns, so the dome closes. Where the gap does
+ * not exist, #N/A.
  * @customfunction
  * @helpurl https://localhost:3000/help/GAPTABLE.html
  * @param T1 First temperature (kelvin, or the card's temperature unit).
@@ -237,7 +239,7 @@ export function gMix(x: number, T: number, params: any[][]): number {
  * @param rows Number of rows (2 to 10000); write it as a number in the formula.
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [gap] Which gap, numbered from low x at each temperature (default 1).
- * @returns rows x 5 table: T, binodal low, binodal high, spinodal low, spinodal high.
+ * @returns rows x 5 table: T (card's temperature unit), binodal low, binodal high, spinodal low, spinodal high.
  */
 export function gapTable(T1: number, T2: number, rows: number, params: any[][], gap?: number): any[][] {
   return cell(() => {

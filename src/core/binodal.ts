@@ -1,5 +1,5 @@
 import { curvature, curvatureMap, curvatureSlope } from './curvature';
-import { fail, MixgapError } from './errors';
+import { fail, MixgapError, kelvin, msg } from './errors';
 import type { Isotherm, Point } from './model';
 import { logRatio, muA, pointAt, splitRatio } from './model';
 
@@ -76,7 +76,7 @@ export function phaseMap(iso: Isotherm, hint?: PhaseMap): PhaseMap {
         const m = crossing(iso, j, next, mFrom, sure, warm?.gaps[gaps.length]?.slope);
         if (m !== undefined && (best === undefined || m < best.m)) best = { m, k };
       }
-      if (best === undefined) fail('convergence', `the common-tangent sweep lost the envelope at T = ${iso.T} K`);
+      if (best === undefined) fail('convergence', msg`the common-tangent sweep lost the envelope at T = ${kelvin(iso.T)}`);
       if (best.nearCritical) {
         gaps.push(criticalGap(iso, branches[active].b, branches[best.k].a));
       } else {
@@ -111,7 +111,7 @@ function criticalGap(iso: Isotherm, s1: number, s2: number): Gap {
   const a = pointAt(s1), b = pointAt(s2);
   const c = 0.5 * (a.x + b.x), h = 0.5 * (b.x - a.x);
   const xLow = c - Math.sqrt(3) * h, xHigh = c + Math.sqrt(3) * h;
-  if (!(xLow > 0 && xHigh < 1)) fail('convergence', `a near-critical gap next to a pure component at T = ${iso.T} K cannot be resolved`);
+  if (!(xLow > 0 && xHigh < 1)) fail('convergence', msg`a near-critical gap next to a pure component at T = ${kelvin(iso.T)} cannot be resolved`);
   const low = pointAt(logRatio(xLow)), high = pointAt(logRatio(xHigh));
   return { low, high, slope: iso.dg(c, 1 - c) };
 }
@@ -221,13 +221,13 @@ function crossing(iso: Isotherm, j: Branch, k: Branch, mFrom: number, sure: bool
     if (Math.abs(next - m) <= 1e-15 * scale || hi - lo <= 4e-16 * scale) {
       // Pinned against an end of the overlap: there was no sign change, so no tangent.
       if (next - lo0 <= 1e-9 * (hi0 - lo0) || hi0 - next <= 1e-9 * (hi0 - lo0)) {
-        return fail('convergence', `no common tangent between the convex stretches at T = ${iso.T} K`);
+        return fail('convergence', msg`no common tangent between the convex stretches at T = ${kelvin(iso.T)}`);
       }
       return next;
     }
     m = next;
   }
-  return fail('convergence', `the common tangent did not converge at T = ${iso.T} K`);
+  return fail('convergence', msg`the common tangent did not converge at T = ${kelvin(iso.T)}`);
 }
 
 /** Scratch for x and y in solveSlope's loop. */
@@ -243,7 +243,7 @@ const U_LIMIT = 700;
 export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
   if (m >= br.mB) return br.b;
   if (m <= br.mA) return br.a;
-  const tooDilute = () => fail('range', `a tangent point (gap boundary) lies closer than 1e-300 to a pure component at T = ${iso.T} K`);
+  const tooDilute = () => fail('range', msg`a tangent point (gap boundary) lies closer than 1e-300 to a pure component at T = ${kelvin(iso.T)}`);
   let lo = br.a, hi = br.b;
   let u = Math.min(Math.max(br.guess, lo), hi);
   if (!Number.isFinite(u)) u = 0;
@@ -282,7 +282,7 @@ export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
     }
     u = next;
   }
-  return fail('convergence', `a point of equal slope did not converge at T = ${iso.T} K`);
+  return fail('convergence', msg`a point of equal slope did not converge at T = ${kelvin(iso.T)}`);
 }
 
 /**

@@ -1,4 +1,4 @@
-/** Physical constants (see ../../../shared/spec/thermodynamics.md). */
+/** Physical constants (see docs/conventions.md). */
 
 /** Molar gas constant, J/(mol K): CODATA 2018, exact by the 2019 SI definitions. */
 export const R = 8.314462618;

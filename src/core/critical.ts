@@ -1,7 +1,7 @@
 import { phaseMap } from './binodal';
 import { T_SEARCH_MAX, T_SEARCH_MIN } from './constants';
 import { curvature, curvatureMap, refineExtremum } from './curvature';
-import { fail } from './errors';
+import { fail, kelvin, msg } from './errors';
 import type { BinaryModel, Isotherm, Point } from './model';
 import { pointAt } from './model';
 import { brentMin, brentRoot } from './roots';
@@ -182,7 +182,7 @@ function closesThere(model: BinaryModel, Tc: number, u: number, kind: 'upper' | 
 
 /** The critical point numbered n (1 = highest temperature). */
 export function criticalPoint(points: CriticalPoint[], n: number): CriticalPoint {
-  if (points.length === 0) fail('none', 'this system has no critical point between 1 K and 20000 K');
+  if (points.length === 0) fail('none', msg`this system has no critical point between ${kelvin(T_SEARCH_MIN)} and ${kelvin(T_SEARCH_MAX)}`);
   if (!(n >= 1 && n <= points.length && Number.isInteger(n))) {
     fail('range', `critical point ${n} does not exist: this system has ${points.length} (numbered 1 to ${points.length}, highest temperature first)`);
   }

@@ -1,4 +1,4 @@
-import { fail } from './errors';
+import { fail, kelvin, msg } from './errors';
 import type { Isotherm, Point } from './model';
 import { pointAt, splitRatio } from './model';
 import { brentMin, brentRoot, newtonRoot } from './roots';
@@ -97,12 +97,12 @@ export function curvatureMap(iso: Isotherm, refineAll = true, near?: readonly Po
     const q = n <= qBuffer.length ? qBuffer.subarray(0, n) : new Float64Array(n);
     for (let i = 0; i < n; i++) q[i] = scaledCurvature(iso, x[i], y[i]);
     if (!(q[0] > 0 && q[n - 1] > 0)) {
-      if (Number.isNaN(q[0]) || Number.isNaN(q[n - 1])) fail('range', `the model overflows at T = ${iso.T} K: its parameters are too large for this temperature`);
+      if (Number.isNaN(q[0]) || Number.isNaN(q[n - 1])) fail('range', msg`the model overflows at T = ${kelvin(iso.T)}: its parameters are too large for this temperature`);
       continue; // still unstable at the sampled ends: sample wider
     }
     return analyse(iso, points, q, refineAll, near);
   }
-  return fail('range', `the solution is unstable even at x = 1e-304 at T = ${iso.T} K: the parameters are too large for this temperature`);
+  return fail('range', msg`the solution is unstable even at x = 1e-304 at T = ${kelvin(iso.T)}: the parameters are too large for this temperature`);
 }
 
 /** `near`: spinodal points of a nearby temperature; a root in the same sampling cell starts Newton there. */
@@ -123,7 +123,7 @@ function analyse(iso: Isotherm, points: Point[], q: Float64Array, refineAll: boo
     if (near) for (const p of near) if (p.u > u0 && p.u < u1) start = p.u;
     let u = start !== undefined ? newtonRoot(qdq, u0, u1, q0, start, 1e-14) : NaN;
     if (Number.isNaN(u)) u = brentRoot(qAt, u0, u1, q0, q1, 1e-14);
-    if (Number.isNaN(u)) fail('convergence', `spinodal root search failed at T = ${iso.T} K`);
+    if (Number.isNaN(u)) fail('convergence', msg`spinodal root search failed at T = ${kelvin(iso.T)}`);
     spinodal.push(pointAt(u));
   };
   for (let i = 0; i + 1 < q.length; i++) {
@@ -152,7 +152,7 @@ function analyse(iso: Isotherm, points: Point[], q: Float64Array, refineAll: boo
     }
   }
   spinodal.sort((a, b) => a.u - b.u);
-  if (spinodal.length % 2 !== 0) fail('convergence', `odd number of spinodal points at T = ${iso.T} K`);
+  if (spinodal.length % 2 !== 0) fail('convergence', msg`odd number of spinodal points at T = ${kelvin(iso.T)}`);
   return { spinodal, minima, scale };
 }
 

@@ -1,6 +1,6 @@
 import { phaseMap, type Gap, type PhaseMap } from './binodal';
 import { criticalPoints, type CriticalPoint } from './critical';
-import { fail } from './errors';
+import { fail, kelvin, msg } from './errors';
 import type { BinaryModel } from './model';
 import { pointAt } from './model';
 
@@ -83,7 +83,7 @@ function lookup(id: number, T: number): PhaseMap | undefined {
 
 export function checkTemperature(T: number): void {
   if (!Number.isFinite(T)) fail('range', 'the temperature must be a finite number of kelvin');
-  if (!(T > 0)) fail('range', `the temperature must be above 0 K (got ${T} K)`);
+  if (!(T > 0)) fail('range', msg`the temperature must be above ${kelvin(0)} (got ${kelvin(T)})`);
 }
 
 /**
@@ -111,9 +111,9 @@ export function criticalPointsOf(model: BinaryModel): CriticalPoint[] {
 /** The gap numbered n (from low x, 1-based) at T. */
 export function gapAt(model: BinaryModel, T: number, n = 1): Gap {
   const { gaps } = equilibriumAt(model, T);
-  if (gaps.length === 0) fail('none', `no miscibility gap at T = ${T} K: the solution is homogeneous at every composition`);
+  if (gaps.length === 0) fail('none', msg`no miscibility gap at T = ${kelvin(T)}: the solution is homogeneous at every composition`);
   if (!(Number.isInteger(n) && n >= 1 && n <= gaps.length)) {
-    fail('range', `gap ${n} does not exist at T = ${T} K: there ${gaps.length === 1 ? 'is 1 gap' : `are ${gaps.length} gaps`} (numbered from low x)`);
+    fail('range', msg`gap ${n} does not exist at T = ${kelvin(T)}: there ${gaps.length === 1 ? 'is 1 gap' : `are ${gaps.length} gaps`} (numbered from low x)`);
   }
   return gaps[n - 1];
 }
@@ -122,9 +122,9 @@ export function gapAt(model: BinaryModel, T: number, n = 1): Gap {
 export function unstableAt(model: BinaryModel, T: number, n = 1): [number, number] {
   const { spinodal } = equilibriumAt(model, T);
   const count = spinodal.length / 2;
-  if (count === 0) fail('none', `no unstable interval at T = ${T} K: g'' > 0 at every composition`);
+  if (count === 0) fail('none', msg`no unstable interval at T = ${kelvin(T)}: g'' > 0 at every composition`);
   if (!(Number.isInteger(n) && n >= 1 && n <= count)) {
-    fail('range', `unstable interval ${n} does not exist at T = ${T} K: there ${count === 1 ? 'is 1' : `are ${count}`} (numbered from low x)`);
+    fail('range', msg`unstable interval ${n} does not exist at T = ${kelvin(T)}: there ${count === 1 ? 'is 1' : `are ${count}`} (numbered from low x)`);
   }
   return [spinodal[2 * n - 2].x, spinodal[2 * n - 1].x];
 }

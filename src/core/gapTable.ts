@@ -22,8 +22,10 @@ export function evenTemperatures(T1: number, T2: number, rows: number): number[]
 /**
  * Temperature, binodal and spinodal compositions of gap n (numbered from low x) at the given
  * temperatures (kelvin, in order). Each critical temperature strictly inside their range replaces
- * the nearest interior temperature, and its row holds the critical composition in all four
- * columns, so a chart of the table closes its dome at the critical point. The spinodal columns
+ * the nearest interior temperature not already replaced (the first and last temperatures always
+ * stay, so the table spans what was asked; with two rows there is no interior row and no critical
+ * row), and its row holds the critical composition in all four columns, so a chart of the table
+ * closes its dome at the critical point. The spinodal columns
  * give the outermost spinodal points inside the gap. Each temperature starts from the answer of
  * the previous one; between two temperatures with no critical point in between, the spinodal and
  * the gap are followed by Newton's method alone (see continueMap).

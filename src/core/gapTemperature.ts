@@ -1,7 +1,7 @@
 import { phaseMap, type PhaseMap } from './binodal';
 import { T_SEARCH_MAX, T_SEARCH_MIN } from './constants';
 import type { CriticalPoint } from './critical';
-import { fail, MixgapError } from './errors';
+import { fail, MixgapError, kelvin, msg } from './errors';
 import type { BinaryModel } from './model';
 
 /** Whether x0 lies strictly inside one of the gaps of a phase map. */
@@ -38,7 +38,7 @@ export function gapTemperature(model: BinaryModel, x0: number, critical: readonl
     hint = map;
     return inside(map, x0);
   };
-  if (test(samples[0])) fail('range', `x = ${x0} is still inside a gap at ${T_SEARCH_MAX} K: its gap temperature is above the range Mixgap searches`);
+  if (test(samples[0])) fail('range', msg`x = ${x0} is still inside a gap at ${kelvin(T_SEARCH_MAX)}: its gap temperature is above the range Mixgap searches`);
   let above = samples[0];
   for (let i = 1; i < samples.length; i++) {
     const T = samples[i];
@@ -52,5 +52,5 @@ export function gapTemperature(model: BinaryModel, x0: number, critical: readonl
     }
     return 0.5 * (lo + hi);
   }
-  return fail('none', `x = ${x0} does not enter a miscibility gap between ${T_SEARCH_MIN} K and ${T_SEARCH_MAX} K`);
+  return fail('none', msg`x = ${x0} does not enter a miscibility gap between ${kelvin(T_SEARCH_MIN)} and ${kelvin(T_SEARCH_MAX)}`);
 }

@@ -14,6 +14,12 @@
 export interface BinaryModel {
   /** A stable text that identifies the parameters, used as a cache key. */
   readonly key: string;
+  /**
+   * Lattice sites per molecule of A and of B, when g is per mole of sites (Flory–Huggins: the chain
+   * lengths N_A, N_B). Absent for mole-fraction models: one each. Chemical potentials per mole of
+   * molecules are N_i times the per-site ones (src/core/activity.ts).
+   */
+  readonly sites?: { readonly A: number; readonly B: number };
   /** The model with its temperature-dependent parameters evaluated at T (kelvin, > 0). */
   at(T: number): Isotherm;
 }

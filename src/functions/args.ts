@@ -2,7 +2,7 @@
  * Reading cell arguments: every check on what a user typed lives here, with a message that says
  * what to fix. Nothing numerical happens in this file.
  */
-import { MixgapError } from '../core/errors';
+import { formatNumber, MixgapError, type UnitWriter } from '../core/errors';
 import { describeRedlichKister, describeRegular, redlichKister, type RedlichKisterTerm } from '../core/models/redlichKister';
 import { JOULE_PER_MOLE, KELVIN } from '../core/units';
 import { isCard, readCard, unitNote, type System } from './card';
@@ -11,13 +11,26 @@ import { CellFailure, toHostError, type Cell } from './errors';
 
 export type { CellValue } from './cells';
 
-/** Runs a cell function body: core failures become the cell error that fits, with their message. */
+/**
+ * The system the running cell function read (set by `system`): its units are those in which core
+ * failures name temperatures and energies.
+ */
+let scope: System | undefined;
+
+/**
+ * Runs a cell function body: core failures become the cell error that fits, with their message,
+ * temperatures and energies in it written in the units of the card the body read.
+ */
 export function cell<T>(body: () => T): T {
+  const outer = scope;
+  scope = undefined;
   let result: T;
   try {
     result = body();
   } catch (e) {
-    throw toHostError(asFailure(e));
+    throw toHostError(asFailure(e, scope));
+  } finally {
+    scope = outer;
   }
   if (typeof result === 'number' && !Number.isFinite(result)) {
     throw toHostError(new CellFailure('#NUM!', 'the result overflows (is not a finite number): the parameters are too large for this quantity'));
@@ -25,15 +38,27 @@ export function cell<T>(body: () => T): T {
   return result;
 }
 
-/** The CellFailure that reports any exception. */
-export function asFailure(e: unknown): CellFailure {
+/**
+ * The CellFailure that reports any exception; a core failure's temperatures and energies are
+ * written in the units of `sys` (kelvin and J/mol without one).
+ */
+export function asFailure(e: unknown, sys?: System): CellFailure {
   if (e instanceof CellFailure) return e;
   if (e instanceof MixgapError) {
     const code = e.reason === 'none' ? '#N/A' : e.reason === 'input' ? '#VALUE!' : '#NUM!';
-    const text = e.reason === 'convergence' ? `did not converge: ${e.message}` : e.message;
+    const message = sys ? e.text(unitsOf(sys)) : e.message;
+    const text = e.reason === 'convergence' ? `did not converge: ${message}` : message;
     return new CellFailure(code, text);
   }
   return new CellFailure('#VALUE!', `internal error: ${e instanceof Error ? e.message : String(e)}`);
+}
+
+/** How a system's card writes quantities: its temperature and energy units. */
+export function unitsOf(sys: System): UnitWriter {
+  return {
+    temperature: (K) => `${formatNumber(temperatureOut(sys, K))} ${sys.temperature.name}`,
+    energy: (J) => `${formatNumber(energyOut(sys, J))} ${sys.energy.name}`,
+  };
 }
 
 /** Turns a per-cell failure of a spilled result into what the host shows in that cell. */
@@ -83,7 +108,7 @@ export type { System } from './card';
  */
 export function system(params: unknown): System {
   const key = fingerprint(params);
-  if (key === lastSystem?.key) return lastSystem.system;
+  if (key === lastSystem?.key) return (scope = lastSystem.system);
   let known = systems.get(key);
   if (!known) {
     known = readSystem(params);
@@ -91,7 +116,7 @@ export function system(params: unknown): System {
     systems.set(key, known);
   }
   lastSystem = { key, system: known };
-  return known;
+  return (scope = known);
 }
 
 /**

@@ -8,13 +8,14 @@
  * Compositions are mole fractions of component B (volume fractions for Flory–Huggins); temperatures
  * are in kelvin and energies in J/mol unless a parameter card says otherwise.
  */
+import { T_SEARCH_MAX, T_SEARCH_MIN } from '../core/constants';
 import { criticalPoint } from '../core/critical';
 import { criticalPointsOf, equilibriumAt, gapAt, unstableAt } from '../core/equilibrium';
 import { evenTemperatures, gapTable as coreGapTable } from '../core/gapTable';
 import { gapTemperature } from '../core/gapTemperature';
 import { phaseFractions } from '../core/leverRule';
-import { activities, decompositionGain, drivingForce, excessGibbs } from '../core/activity';
-import { cell, cellOf, component, energyOut, fraction, number, ordinal, phaseSide, system, temperatureIn, temperatureOut } from './args';
+import { activities, decompositionGain, drivingForce, excessGibbs, expOfLog } from '../core/activity';
+import { asFailure, cell, cellOf, component, energyOut, fraction, number, ordinal, phaseSide, system, temperatureIn, temperatureOut, unitsOf } from './args';
 import { CellFailure } from './errors';
 
 /**
@@ -198,13 +199,14 @@ export function tGap(x0: number, params: any[][]): number {
 }
 
 /**
- * Molar Gibbs energy of mixing g(x, T) relative to the pure components.
+ * Molar Gibbs energy of mixing g(x, T) relative to the pure components (Flory–Huggins: per mole
+ * of lattice sites).
  * @customfunction
  * @helpurl https://localhost:3000/help/GMIX.html
  * @param x Mole fraction of B.
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
- * @returns Gibbs energy of mixing (J/mol, or the card's energy unit).
+ * @returns Gibbs energy of mixing (J/mol, or the card's energy unit; Flory–Huggins: per mole of sites).
  */
 export function gMix(x: number, T: number, params: any[][]): number {
   return cell(() => {
@@ -215,10 +217,12 @@ export function gMix(x: number, T: number, params: any[][]): number {
 }
 
 /**
- * A chart-ready table of one gap between two temperatures: columns T (K), binodal low, binodal
- * high, spinodal low, spinodal high (mole fractions of B); one row per temperature, evenly spaced.
- * A critical temperature inside the range replaces the nearest row, with the critical
- * composition in all four columns, so the dome closes. Where the gap does not exist, #N/A.
+ * A chart-ready table of one gap between two temperatures: columns T (in the card's temperature
+ * unit, kelvin without a card), binodal low, binodal high, spinodal low, spinodal high (mole
+ * fractions of B); one row per temperature, evenly spaced from T1 to T2. A critical temperature
+ * between T1 and T2 replaces the nearest row other than the first and last (T1 and T2 always
+ * stay), with the critical composition in all four columns, so the dome closes. Where the gap does
+ * not exist, #N/A.
  * @customfunction
  * @helpurl https://localhost:3000/help/GAPTABLE.html
  * @param T1 First temperature (kelvin, or the card's temperature unit).
@@ -226,7 +230,7 @@ export function gMix(x: number, T: number, params: any[][]): number {
  * @param rows Number of rows (2 to 10000); write it as a number in the formula.
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [gap] Which gap, numbered from low x at each temperature (default 1).
- * @returns rows x 5 table: T, binodal low, binodal high, spinodal low, spinodal high.
+ * @returns rows x 5 table: T (card's temperature unit), binodal low, binodal high, spinodal low, spinodal high.
  */
 export function gapTable(T1: number, T2: number, rows: number, params: any[][], gap?: number): any[][] {
   return cell(() => {
@@ -250,29 +254,32 @@ export function gapTable(T1: number, T2: number, rows: number, params: any[][], 
 }
 
 /**
- * Activity of a component at composition x and temperature T: ln a_i = mu_i / (R T), relative to
- * the pure component in the same structure.
+ * Activity of a component at composition x and temperature T: a_i = exp(Mu_i / (R T)), Mu_i its
+ * chemical potential per mole of molecules, relative to the pure component in the same structure.
+ * Flory–Huggins: per molecule of N_i lattice sites (a 1000-mer at phi = 0.1, chi = 0.55 has
+ * a = exp(-455.9)). Below 2.2e-308 an activity is #NUM!: CHEMPOT gives its logarithm, RT ln a.
  * @customfunction
  * @helpurl https://localhost:3000/help/ACTIVITY.html
- * @param x Mole fraction of B.
+ * @param x Mole fraction of B (Flory–Huggins: volume fraction of B).
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [of] "A" or "B" (or the card's component names); default "B".
- * @returns Activity (dimensionless).
+ * @returns Activity (dimensionless), per molecule of the component.
  */
 export function activity(x: number, T: number, params: any[][], of?: string): number {
   return cell(() => {
     const { sys, xB, TK, which } = pointArgs(x, T, params, of);
-    const a = activities(sys.model.at(TK), xB);
-    return Math.exp(which === 'A' ? a.lnA : a.lnB);
+    const a = activities(sys.model, TK, xB);
+    return expOfLog(which === 'A' ? a.lnA : a.lnB, `the activity of ${sys.names[which]}`, 'CHEMPOT gives its logarithm as RT ln a');
   });
 }
 
 /**
- * Activity coefficient of a component: gamma_i = a_i / x_i.
+ * Activity coefficient of a component: gamma_i = a_i / x_i, with a_i per mole of molecules as in
+ * ACTIVITY (Flory–Huggins: gamma_i = a_i / phi_i, on the volume-fraction basis).
  * @customfunction
  * @helpurl https://localhost:3000/help/ACTCOEF.html
- * @param x Mole fraction of B.
+ * @param x Mole fraction of B (Flory–Huggins: volume fraction of B).
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [of] "A" or "B" (or the card's component names); default "B".
@@ -281,38 +288,41 @@ export function activity(x: number, T: number, params: any[][], of?: string): nu
 export function actCoef(x: number, T: number, params: any[][], of?: string): number {
   return cell(() => {
     const { sys, xB, TK, which } = pointArgs(x, T, params, of);
-    const a = activities(sys.model.at(TK), xB);
-    return Math.exp(which === 'A' ? a.lnGammaA : a.lnGammaB);
+    const a = activities(sys.model, TK, xB);
+    return expOfLog(which === 'A' ? a.lnGammaA : a.lnGammaB, `the activity coefficient of ${sys.names[which]}`, 'CHEMPOT gives RT ln a, and ln gamma = ln a - ln x');
   });
 }
 
 /**
- * Chemical potential of a component relative to the pure component: mu_A = g - x g',
- * mu_B = g + (1 - x) g'.
+ * Chemical potential of a component relative to the pure component, per mole of its molecules:
+ * mu_A = g - x g', mu_B = g + (1 - x) g'. Flory–Huggins, where g is per mole of lattice sites:
+ * N_A (g - phi g') and N_B (g + (1 - phi) g'), per mole of chains. Equals R T ln a, also where the
+ * activity itself is too small for a number.
  * @customfunction
  * @helpurl https://localhost:3000/help/CHEMPOT.html
- * @param x Mole fraction of B.
+ * @param x Mole fraction of B (Flory–Huggins: volume fraction of B).
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
  * @param [of] "A" or "B" (or the card's component names); default "B".
- * @returns Chemical potential (J/mol, or the card's energy unit).
+ * @returns Chemical potential (J per mole of molecules of the component, or the card's energy unit).
  */
 export function chemPot(x: number, T: number, params: any[][], of?: string): number {
   return cell(() => {
     const { sys, xB, TK, which } = pointArgs(x, T, params, of);
-    const a = activities(sys.model.at(TK), xB);
+    const a = activities(sys.model, TK, xB);
     return energyOut(sys, which === 'A' ? a.muA : a.muB);
   });
 }
 
 /**
- * Excess Gibbs energy: g minus the ideal mixing term RT[x ln x + (1-x) ln(1-x)].
+ * Excess Gibbs energy: g minus the ideal mixing term RT[x ln x + (1-x) ln(1-x)] (Flory–Huggins:
+ * in the volume fraction, per mole of lattice sites).
  * @customfunction
  * @helpurl https://localhost:3000/help/GEXCESS.html
  * @param x Mole fraction of B.
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
- * @returns Excess Gibbs energy (J/mol, or the card's energy unit).
+ * @returns Excess Gibbs energy (J/mol, or the card's energy unit; Flory–Huggins: per mole of sites).
  */
 export function gExcess(x: number, T: number, params: any[][]): number {
   return cell(() => {
@@ -323,14 +333,14 @@ export function gExcess(x: number, T: number, params: any[][]): number {
 
 /**
  * Driving force for a new phase to form from a homogeneous solution x0 (parallel tangent):
- * the largest height of the tangent at x0 above g, per mole of the new phase. 0 when no new
- * phase can lower the energy.
+ * the largest height of the tangent at x0 above g, per mole of the new phase (Flory–Huggins: per
+ * mole of its lattice sites). 0 when no new phase can lower the energy.
  * @customfunction
  * @helpurl https://localhost:3000/help/DRIVEFORCE.html
  * @param x0 Overall mole fraction of B of the homogeneous solution.
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
- * @returns Driving force (J/mol, or the card's energy unit), >= 0.
+ * @returns Driving force (J/mol, or the card's energy unit; Flory–Huggins: per mole of sites), >= 0.
  */
 export function driveForce(x0: number, T: number, params: any[][]): number {
   return cell(() => {
@@ -341,13 +351,14 @@ export function driveForce(x0: number, T: number, params: any[][]): number {
 
 /**
  * Decomposition gain: how far g of a homogeneous solution x0 lies above the lower convex
- * envelope (the energy released by splitting into the two coexisting phases). 0 outside every gap.
+ * envelope (the energy released by splitting into the two coexisting phases), per mole (Flory–Huggins:
+ * per mole of lattice sites). 0 outside every gap.
  * @customfunction
  * @helpurl https://localhost:3000/help/DECOMPGAIN.html
  * @param x0 Overall mole fraction of B.
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Parameter card (key/value range), or Omega in J/mol, or Redlich–Kister rows a, b, c (J/mol, J/(mol K), J/(mol K)).
- * @returns Decomposition gain (J/mol, or the card's energy unit), >= 0.
+ * @returns Decomposition gain (J/mol, or the card's energy unit; Flory–Huggins: per mole of sites), >= 0.
  */
 export function decompGain(x0: number, T: number, params: any[][]): number {
   return cell(() => {
@@ -372,10 +383,10 @@ export function checkCard(params: any[][]): string {
     try {
       const points = criticalPointsOf(sys.model);
       critical = points.length === 0
-        ? 'no critical point between 1 K and 20000 K'
+        ? `no critical point between ${unitsOf(sys).temperature(T_SEARCH_MIN)} and ${unitsOf(sys).temperature(T_SEARCH_MAX)}`
         : points.map((p) => `${p.kind} critical point ${round(temperatureOut(sys, p.T))} ${sys.temperature.name} at x = ${round(p.x)}`).join(', ');
     } catch (e) {
-      critical = `critical points not found: ${e instanceof Error ? e.message : String(e)}`;
+      critical = `critical points not found: ${asFailure(e, sys).message}`;
     }
     return `${sys.description}${names}; ${critical}`;
   });

@@ -1,8 +1,9 @@
 /**
  * Activities, driving force and decomposition gain (src/core/activity.ts) against the spec's
- * definitions and published closed forms: Gibbs–Duhem along composition sweeps, equal activities
- * in coexisting phases, activity coefficients of the regular solution, of the two-term
- * Redlich–Kister series and of Flory–Huggins, NRTL at infinite dilution, the parallel-tangent
+ * definitions and published closed forms: Gibbs–Duhem (number-of-molecules weighted) along
+ * composition sweeps, equal activities in coexisting phases, activity coefficients of the regular
+ * solution, of the two-term Redlich–Kister series and of Flory–Huggins per molecule (solvent,
+ * polymer, blend), NRTL at infinite dilution, the parallel-tangent
  * driving force against a brute-force maximisation over a dense grid, and the decomposition gain
  * against the chord of the binodal pair.
  */
@@ -28,14 +29,17 @@ interface Case {
   /** g(x, y) from the spec (test/core/support/spec.ts; nothing there imports src/). */
   g: (x: number, y: number) => number;
   text: GText;
+  /** Lattice sites per molecule of A and B, from the test's own parameters (1 for mole-fraction models). */
+  NA: number;
+  NB: number;
 }
 
 const rkCase = (name: string, terms: RkTerm[], T: number): Case =>
-  ({ name, model: redlichKister(terms), T, g: (x, y) => rkG(terms, T, x, y), text: rkText(terms) });
+  ({ name, model: redlichKister(terms), T, g: (x, y) => rkG(terms, T, x, y), text: rkText(terms), NA: 1, NB: 1 });
 const fhCase = (name: string, p: FhParams, T: number): Case =>
-  ({ name, model: floryHuggins(p), T, g: (x, y) => fhG(p, T, x, y), text: fhText(p) });
+  ({ name, model: floryHuggins(p), T, g: (x, y) => fhG(p, T, x, y), text: fhText(p), NA: p.NA, NB: p.NB });
 const nrtlCase = (name: string, p: NrtlParams, T: number): Case =>
-  ({ name, model: nrtl(p), T, g: (x, y) => nrtlG(p, T, x, y), text: nrtlText(p) });
+  ({ name, model: nrtl(p), T, g: (x, y) => nrtlG(p, T, x, y), text: nrtlText(p), NA: 1, NB: 1 });
 
 // Systems with a miscibility gap at T (one has two gaps), one of each model family at least.
 const CASES: Case[] = [
@@ -44,6 +48,7 @@ const CASES: Case[] = [
   rkCase('Redlich–Kister, two gaps (L0 = -5000, L2 = 60000), 600 K', [{ a: -5000, b: 0, c: 0 }, { a: 0, b: 0, c: 0 }, { a: 60000, b: 0, c: 0 }], 600),
   fhCase('Flory–Huggins, polymer B (N = 100) in solvent A, 300 K', { NA: 1, NB: 100, A: 0.2, B: 150 }, 300),
   fhCase('Flory–Huggins, asymmetric blend N_A = 20, N_B = 50, 350 K', { NA: 20, NB: 50, A: 0, B: 25 }, 350),
+  fhCase('Flory–Huggins, 1000-mer B in solvent A, chi = 0.55 + 10/T, 300 K', { NA: 1, NB: 1000, A: 0.55, B: 10 }, 300),
   nrtlCase('NRTL, constant taus 1.5 and 2.5, alpha = 0.2, 300 K', { a12: 1.5, b12: 0, a21: 2.5, b21: 0, alpha: 0.2 }, 300),
   nrtlCase('NRTL, taus with b/T terms, alpha = 0.3, 320 K', { a12: -0.5, b12: 600, a21: 0.8, b21: 400, alpha: 0.3 }, 320),
 ];
@@ -53,51 +58,58 @@ const mapOf = (c: Case): { iso: Isotherm; map: PhaseMap } => {
   return { iso, map: phaseMap(iso) };
 };
 
-describe('Gibbs–Duhem: x_A d ln a_A + x_B d ln a_B = 0 along a composition sweep', () => {
+describe('Gibbs–Duhem: n_A d ln a_A + n_B d ln a_B = 0 along a composition sweep (per molecule)', () => {
   // Gibbs–Duhem at fixed T and p (e.g. Hillert, Phase Equilibria, Phase Diagrams and Phase
-  // Transformations, 2nd ed. (2008), ch. 3): sum_i x_i d mu_i = 0, hence sum_i x_i d ln a_i = 0
-  // and, since x_A d ln x_A + x_B d ln x_B = 0, also sum_i x_i d ln gamma_i = 0.
+  // Transformations, 2nd ed. (2008), ch. 3): sum_i n_i d Mu_i = 0 over the moles n_i of molecules.
+  // With N_i lattice sites per molecule, n_i is proportional to x_i/N_i (x_i: volume fraction), so
+  //   (x_A/N_A) d ln a_A + (x_B/N_B) d ln a_B = 0        (N_i = 1 for mole-fraction models)
+  // and, since (x_A/N_A) d ln x_A/dx + (x_B/N_B) d ln x_B/dx = 1/N_B - 1/N_A,
+  //   (x_A/N_A) d ln gamma_A/dx + (x_B/N_B) d ln gamma_B/dx = 1/N_A - 1/N_B.
+  // Per-site activities miss the first sum by (x_A d ln a_A/dx)(1/N_A - 1/N_B): the test tells the
+  // two bases apart.
   //
-  // Central differences with a step h = 1e-4 min(x, 1 - x). Each x_i d ln a_i/dx is an ideal part
-  // (x_i d ln x_i/dx = +-1) plus an excess part, so the scale of the terms is at least 1 even where
-  // the two parts cancel (near a spinodal point). The truncation error is (h^2/6) |d^3 ln a/dx^3|
-  // ~ (h/min(x,1-x))^2 = 1e-8 of that scale, and the rounding of ln a (a few 1e-16 of |ln a|, at
-  // most ~50 here) divided by 2h = 6e-7 or more is below 1e-7. 1e-6 of the scale is above both
-  // and far below any inconsistency between a_A and a_B (which shows at order 1).
+  // Central differences with a step h = 1e-4 min(x, 1 - x). Each (x_i/N_i) d ln a_i/dx is an ideal
+  // part (+-1/N_i) plus an excess part; the scale is taken as at least 1/max(N_A, N_B). Truncation:
+  // (h^2/6) |d^3 ln a/dx^3| ~ (h/min(x,1-x))^2 = 1e-8 of the scale. Rounding: ln a_i is N_i times
+  // a per-site value rounded to a few 1e-16 of its terms (at most ~50), so (x_i/N_i) times its
+  // difference over 2h (>= 6e-7) is below 1e-7 absolute, 1e-4 of a scale of 1/1000 at worst.
+  // 1e-6 of the scale plus 1e-7 is above both and far below an inconsistency between a_A and a_B
+  // (of the order of the scale itself).
   const XS = [0.003, 0.02, 0.1, 0.25, 0.5, 0.62, 0.8, 0.95, 0.997];
   for (const c of CASES) {
     it(c.name, () => {
-      const iso = c.model.at(c.T);
       for (const x of XS) {
         const h = 1e-4 * Math.min(x, 1 - x);
-        const lo = activities(iso, x - h), hi = activities(iso, x + h);
-        const xA = 1 - x, xB = x;
+        const lo = activities(c.model, c.T, x - h), hi = activities(c.model, c.T, x + h);
+        const nA = (1 - x) / c.NA, nB = x / c.NB;
         const dA = (hi.lnA - lo.lnA) / (2 * h), dB = (hi.lnB - lo.lnB) / (2 * h);
-        const sum = xA * dA + xB * dB;
-        const scale = Math.max(Math.abs(xA * dA), Math.abs(xB * dB), 1);
-        expect(Math.abs(sum), `ln a at x = ${x}: ${xA * dA} + ${xB * dB}`).toBeLessThan(1e-6 * scale);
+        const floor = 1 / Math.max(c.NA, c.NB);
+        const scale = Math.max(Math.abs(nA * dA), Math.abs(nB * dB), floor);
+        expect(Math.abs(nA * dA + nB * dB), `ln a at x = ${x}: ${nA * dA} + ${nB * dB}`).toBeLessThan(1e-6 * scale + 1e-7);
         const gA = (hi.lnGammaA - lo.lnGammaA) / (2 * h), gB = (hi.lnGammaB - lo.lnGammaB) / (2 * h);
-        const gScale = Math.max(Math.abs(xA * gA), Math.abs(xB * gB), 1);
-        expect(Math.abs(xA * gA + xB * gB), `ln gamma at x = ${x}`).toBeLessThan(1e-6 * gScale);
+        const gScale = Math.max(Math.abs(nA * gA), Math.abs(nB * gB), floor);
+        expect(Math.abs(nA * gA + nB * gB - (1 / c.NA - 1 / c.NB)), `ln gamma at x = ${x}`).toBeLessThan(1e-6 * gScale + 1e-7);
       }
     });
   }
 });
 
 describe('coexisting phases have equal activities of each component', () => {
-  // Spec, "Binodal": mu_A(x') = mu_A(x'') and mu_B(x') = mu_B(x''), i.e. equal a_A and equal a_B.
-  // The boundaries are solved to ~1e-15 in u = ln(x/y) (quadratic Newton, see binodal.ts); ln a
-  // changes with u at a rate x y g''/RT <= |ln| terms of order 10, so an error in u moves ln a by
-  // ~1e-14. activities() takes x alone and forms 1 - x, which at x'' = 1 - 2e-6 (the two-gap case)
-  // loses ~1e-16/2e-6 = 5e-11 relative in y, i.e. 5e-11 in ln a_A. 1e-9 covers both with margin.
+  // Spec, "Binodal": mu_A(x') = mu_A(x'') and mu_B(x') = mu_B(x''), i.e. equal a_A and equal a_B
+  // (per molecule, Mu_i = N_i mu_i, equal as well). The boundaries are solved to ~1e-15 in
+  // u = ln(x/y) (quadratic Newton, see binodal.ts); the per-site ln a changes with u at a rate
+  // x y g''/RT <= |ln| terms of order 10, so an error in u moves it by ~1e-14. activities() takes
+  // x alone and forms 1 - x, which at x'' = 1 - 2e-6 (the two-gap case) loses ~1e-16/2e-6 = 5e-11
+  // relative in y, i.e. 5e-11 in ln a_A. 1e-9 per site covers both with margin; per molecule the
+  // same error is N_i times larger, hence 1e-9 N_i.
   for (const c of CASES) {
     it(c.name, () => {
       const { iso, map } = mapOf(c);
       expect(map.gaps.length).toBeGreaterThan(0);
       for (const gap of map.gaps) {
-        const p = activities(iso, gap.low.x), q = activities(iso, gap.high.x);
-        expect(Math.abs(p.lnA - q.lnA), `ln a_A at ${gap.low.x} and ${gap.high.x}`).toBeLessThan(1e-9);
-        expect(Math.abs(p.lnB - q.lnB), `ln a_B at ${gap.low.x} and ${gap.high.x}`).toBeLessThan(1e-9);
+        const p = activities(c.model, c.T, gap.low.x), q = activities(c.model, c.T, gap.high.x);
+        expect(Math.abs(p.lnA - q.lnA), `ln a_A at ${gap.low.x} and ${gap.high.x}`).toBeLessThan(1e-9 * c.NA);
+        expect(Math.abs(p.lnB - q.lnB), `ln a_B at ${gap.low.x} and ${gap.high.x}`).toBeLessThan(1e-9 * c.NB);
         // and mu_i = RT ln a_i (spec)
         expect(Math.abs(p.muA - iso.RT * p.lnA)).toBeLessThan(1e-12 * (Math.abs(p.muA) + iso.RT));
         expect(Math.abs(p.muB - iso.RT * p.lnB)).toBeLessThan(1e-12 * (Math.abs(p.muB) + iso.RT));
@@ -113,9 +125,9 @@ describe('closed forms of activity coefficients', () => {
     // Porter, Easterling & Sherif, Phase Transformations in Metals and Alloys, 3rd ed. (2009), ch. 1
     // (activity of a regular solution): ln gamma_A = Omega x_B^2/RT; Hillert (2008), ch. 20, the same.
     for (const [omega, T] of [[20000, 900], [-15000, 500], [60000, 300]]) {
-      const iso = regularSolution(omega).at(T);
+      const model = regularSolution(omega);
       for (const x of XS) {
-        const a = activities(iso, x);
+        const a = activities(model, T, x);
         const RT = R_SPEC * T;
         // mu_A/RT is formed from terms of size |ln x| + |Omega|/RT (<= 40 here) and rounds at a few
         // 1e-16 of that; 1e-12 (1 + |Omega|/RT) is far above rounding, far below any wrong term.
@@ -132,36 +144,86 @@ describe('closed forms of activity coefficients', () => {
     // (also by differentiation: RT ln gamma_1 = g^E + x2 dg^E/dx1 = x2^2 [A + B (4 x1 - 1)]).
     // Component 1 = A, x1 - x2 = 1 - 2x: the spec's L_1 (1 - 2x) term is this B.
     for (const [L0, L1, T] of [[12000, 3000, 700], [-4000, 2500, 400], [30000, -8000, 1200]]) {
-      const iso = redlichKister([{ a: L0, b: 0, c: 0 }, { a: L1, b: 0, c: 0 }]).at(T);
+      const model = redlichKister([{ a: L0, b: 0, c: 0 }, { a: L1, b: 0, c: 0 }]);
       const RT = R_SPEC * T;
       const tol = 1e-12 * (1 + (Math.abs(L0) + 4 * Math.abs(L1)) / RT);
       for (const x of XS) {
         const x1 = 1 - x, x2 = x;
-        const a = activities(iso, x);
+        const a = activities(model, T, x);
         expect(Math.abs(a.lnGammaA - (x2 * x2 * (L0 + 3 * L1 - 4 * L1 * x2)) / RT), `A at x = ${x}`).toBeLessThan(tol);
         expect(Math.abs(a.lnGammaB - (x1 * x1 * (L0 - 3 * L1 + 4 * L1 * x1)) / RT), `B at x = ${x}`).toBeLessThan(tol);
       }
     }
   });
 
-  it('Flory–Huggins, polymer (N segments) in a solvent: solvent and polymer chemical potentials', () => {
+  it('Flory–Huggins, polymer (N segments) in a solvent: solvent and polymer chemical potentials per molecule', () => {
     // Flory, Principles of Polymer Chemistry (1953), ch. XII (from memory: chapter number), per
     // molecule, v2 = volume fraction of polymer, x = its number of segments:
     //   (mu_1 - mu_1^0)/RT = ln(1 - v2) + (1 - 1/x) v2 + chi v2^2
     //   (mu_2 - mu_2^0)/RT = ln v2 - (x - 1)(1 - v2) + chi x (1 - v2)^2
-    // The spec's g is per mole of lattice sites, so its mu_B is the polymer's per molecule divided
-    // by N_B = x (the solvent, N_A = 1, occupies one site): ln a_B(spec) = (mu_2 - mu_2^0)/(x RT).
+    // Rubinstein & Colby, Polymer Physics (2003), ch. 4, give the solvent's the same way (from
+    // memory). The solvent is A (N_A = 1), the polymer B (N_B = x).
     for (const [N, chiA, chiB, T] of [[100, 0.2, 150, 300], [1000, 0.45, 0, 350], [12.5, -0.1, 200, 420]]) {
-      const iso = floryHuggins({ NA: 1, NB: N, A: chiA, B: chiB }).at(T);
+      const model = floryHuggins({ NA: 1, NB: N, A: chiA, B: chiB });
       const chi = chiA + chiB / T;
       for (const v2 of XS) {
-        const a = activities(iso, v2);
+        const a = activities(model, T, v2);
         const ln1 = Math.log1p(-v2) + (1 - 1 / N) * v2 + chi * v2 * v2;
         const ln2 = Math.log(v2) - (N - 1) * (1 - v2) + chi * N * (1 - v2) ** 2;
-        // terms of size |ln v2| + N (<= 1000 for ln2): a few 1e-16 of that, 1e-12 relative to it
-        expect(Math.abs(a.lnA - ln1), `solvent at v2 = ${v2}, N = ${N}`).toBeLessThan(1e-12 * (1 + Math.abs(Math.log(1 - v2)) + chi));
-        expect(Math.abs(a.lnB - ln2 / N), `polymer at v2 = ${v2}, N = ${N}`).toBeLessThan(1e-12 * (1 + Math.abs(Math.log(v2)) + N));
+        // The core forms N times a per-site value whose terms are |ln v2|/N + 1 + |chi| in size:
+        // rounding of a few 1e-16 of N (1 + |chi|) + |ln v2|; 1e-12 of that is far above it and
+        // far below any wrong term (the per-site value, off by a factor N, misses by order N).
+        const big = Math.abs(Math.log(v2)) + N * (1 + Math.abs(chi));
+        expect(Math.abs(a.lnA - ln1), `solvent at v2 = ${v2}, N = ${N}`).toBeLessThan(1e-12 * (1 + Math.abs(Math.log1p(-v2)) + Math.abs(chi)));
+        expect(Math.abs(a.lnB - ln2), `polymer at v2 = ${v2}, N = ${N}`).toBeLessThan(1e-12 * big);
+        // gamma_i = a_i / phi_i (spec: volume-fraction basis); Mu_i = RT ln a_i
+        expect(Math.abs(a.lnGammaB - (ln2 - Math.log(v2))), `polymer gamma at v2 = ${v2}`).toBeLessThan(1e-12 * big);
+        expect(Math.abs(a.muB - R_SPEC * T * ln2), `Mu_B = RT ln a_B at v2 = ${v2}`).toBeLessThan(1e-12 * R_SPEC * T * big);
       }
+    }
+  });
+
+  it('Flory–Huggins, a 1000-mer at phi = 0.1 with chi = 0.55: ln a = -455.90, kept as its logarithm', () => {
+    // Flory (1953), ch. XII, polymer chemical potential as above with x = 1000, v2 = 0.1, chi = 0.55:
+    //   ln a_2 = ln 0.1 - 999 (0.9) + 0.55 (1000)(0.81) = -455.9026 (per site it would be -0.4559,
+    //   a = 0.634, the number reported in the issue "polymer activities per molecule").
+    const model = floryHuggins({ NA: 1, NB: 1000, A: 0.55, B: 0 });
+    const a = activities(model, 300, 0.1);
+    // the hand arithmetic above, to its 4 decimals
+    expect(Math.abs(a.lnB - -455.9026)).toBeLessThan(5e-5);
+    // against the formula in double precision: rounding of terms of size 1000, a few 1e-13; 1e-10 is ample
+    expect(Math.abs(a.lnB - (Math.log(0.1) - 999 * 0.9 + 0.55 * 1000 * 0.81))).toBeLessThan(1e-10);
+  });
+
+  it('Flory–Huggins blend (N_A, N_B > 1): both chemical potentials per molecule', () => {
+    // Spec (after Flory 1953, ch. XII), for chains of N_A and N_B sites:
+    //   Mu_A/RT = ln(1-phi) + (1 - N_A/N_B) phi + chi N_A phi^2
+    //   Mu_B/RT = ln phi + (1 - N_B/N_A)(1-phi) + chi N_B (1-phi)^2
+    // Checked also by differentiating Flory's free energy of mixing of n_A and n_B chains,
+    //   G/RT = n_A ln phi_A + n_B ln phi_B + chi N_A n_A phi_B,  phi_B = N_B n_B/(N_A n_A + N_B n_B),
+    // with respect to n_A and n_B (central differences): an independent route to the same Mu_i
+    // (Flory 1953, ch. XII; Rubinstein & Colby (2003), ch. 4, the same free energy, from memory).
+    const G = (nA: number, nB: number, NA: number, NB: number, chi: number) => {
+      const sites = NA * nA + NB * nB, pA = (NA * nA) / sites, pB = (NB * nB) / sites;
+      return nA * Math.log(pA) + nB * Math.log(pB) + chi * NA * nA * pB;
+    };
+    for (const [NA, NB, chiA, chiB, T, phi] of [[20, 50, 0, 25, 350, 0.3], [300, 80, 0.002, 1.1, 420, 0.7], [1200, 900, -0.0011, 1.32, 400, 0.25]]) {
+      const chi = chiA + chiB / T;
+      const a = activities(floryHuggins({ NA, NB, A: chiA, B: chiB }), T, phi);
+      const wantA = Math.log1p(-phi) + (1 - NA / NB) * phi + chi * NA * phi * phi;
+      const wantB = Math.log(phi) + (1 - NB / NA) * (1 - phi) + chi * NB * (1 - phi) ** 2;
+      const scale = 1 + NA + NB; // size of the terms: rounding is a few 1e-16 of it
+      expect(Math.abs(a.lnA - wantA), `A, N = ${NA}, ${NB}`).toBeLessThan(1e-12 * scale);
+      expect(Math.abs(a.lnB - wantB), `B, N = ${NA}, ${NB}`).toBeLessThan(1e-12 * scale);
+      // n_A, n_B for one mole of sites; steps of 1e-4 of each. Truncation (h^2/6) d3G/dn3 ~ 1e-8 of
+      // the terms; rounding of G (terms ~ scale n) over 2h: 1e-16 scale / 2e-4 ~ 1e-12 scale.
+      // 1e-6 of the scale is above both, far below a wrong N factor (order of the scale).
+      const nA = (1 - phi) / NA, nB = phi / NB;
+      const hA = 1e-4 * nA, hB = 1e-4 * nB;
+      const dA = (G(nA + hA, nB, NA, NB, chi) - G(nA - hA, nB, NA, NB, chi)) / (2 * hA);
+      const dB = (G(nA, nB + hB, NA, NB, chi) - G(nA, nB - hB, NA, NB, chi)) / (2 * hB);
+      expect(Math.abs(a.lnA - dA), `dG/dn_A = ${dA}, N = ${NA}, ${NB}`).toBeLessThan(1e-6 * scale);
+      expect(Math.abs(a.lnB - dB), `dG/dn_B = ${dB}, N = ${NA}, ${NB}`).toBeLessThan(1e-6 * scale);
     }
   });
 
@@ -175,7 +237,7 @@ describe('closed forms of activity coefficients', () => {
       [{ a12: 3.1, b12: -200, a21: -1.2, b21: 250, alpha: 0.47 }, 410],
     ];
     for (const [p, T] of sets) {
-      const iso = nrtl(p).at(T);
+      const model = nrtl(p);
       const tau12 = p.a12 + p.b12 / T, tau21 = p.a21 + p.b21 / T;
       const want1 = tau21 + tau12 * Math.exp(-p.alpha * tau12);
       const want2 = tau12 + tau21 * Math.exp(-p.alpha * tau21);
@@ -183,8 +245,8 @@ describe('closed forms of activity coefficients', () => {
       // actually used: 1 - x is exact for x > 1/2) removes the first-order term; what is left is
       // O(d^2 tau^3) ~ 1e-17 plus rounding of ln gamma, a few 1e-16 of |ln d| ~ 21, amplified 3x
       // by the extrapolation: 1e-11 is far above both.
-      const atA = (d: number) => { const x = 1 - d; return { d: 1 - x, v: activities(iso, x).lnGammaA }; };
-      const atB = (d: number) => ({ d, v: activities(iso, d).lnGammaB });
+      const atA = (d: number) => { const x = 1 - d; return { d: 1 - x, v: activities(model, T, x).lnGammaA }; };
+      const atB = (d: number) => ({ d, v: activities(model, T, d).lnGammaB });
       const extrapolate = (p1: { d: number; v: number }, p2: { d: number; v: number }) => (p2.d * p1.v - p1.d * p2.v) / (p2.d - p1.d);
       const got1 = extrapolate(atA(1e-9), atA(2e-9)), got2 = extrapolate(atB(1e-9), atB(2e-9));
       expect(Math.abs(got1 - want1), `ln gamma_A^inf: got ${got1}, want ${want1}`).toBeLessThan(1e-11);

@@ -82,3 +82,51 @@ describe('two gaps: L0 = -5000, L2 = 60000 J/mol', () => {
     for (const row of gapTable(model, evenTemperatures(400, 800, 3), 3, critical)) expect(row.low).toBeNaN();
   });
 });
+
+describe('the first and last rows always keep T1 and T2 (issue: a critical row took the place of a requested row)', () => {
+  // Regular solution: Tc = Omega/2R at xc = 1/2 (Porter, Easterling & Sherif (2009) ch. 1); with
+  // a temperature-dependent Omega(T) = a + b T + c T ln T the same condition Omega(Tc) = 2 R Tc holds
+  // at every critical point (spec closed form with Omega taken at Tc), solved here by bisection.
+  const bisect = (f: (T: number) => number, lo: number, hi: number) => {
+    for (let i = 0; i < 200; i++) {
+      const mid = 0.5 * (lo + hi);
+      if (Math.sign(f(mid)) === Math.sign(f(lo))) lo = mid; else hi = mid;
+    }
+    return 0.5 * (lo + hi);
+  };
+
+  it('700 K to 1300 K, 4 rows, Tc = 1262.86 K: 1300 K is nearer but stays; 1100 K gives way', () => {
+    const omega = 21000, Tc = omega / (2 * R_SPEC);
+    const model = regularSolution(omega);
+    const table = gapTable(model, evenTemperatures(700, 1300, 4), 1, criticalPoints(model));
+    const want = [700, 900, Tc, 1300];
+    // Tc from criticalPoints: resolved to ~1e-13 relative (see critical.test.ts); 1e-9 allowed
+    table.forEach((row, i) => expect(Math.abs(row.T - want[i]) / want[i], `row ${i}: ${row.T}`).toBeLessThan(1e-9));
+    expect(table.map((r) => r.critical)).toEqual([false, false, true, false]);
+    expect(table[0].T).toBe(700); // the end rows exactly as asked
+    expect(table[3].T).toBe(1300);
+  });
+
+  it('two rows: no interior row, so no critical row, even with Tc between them', () => {
+    const model = regularSolution(21000);
+    const table = gapTable(model, [700, 1300], 1, criticalPoints(model));
+    expect(table.map((r) => [r.T, r.critical])).toEqual([[700, false], [1300, false]]);
+  });
+
+  it('a closed loop: both critical temperatures lie next to an end row; each takes its own interior row', () => {
+    // L0 = -30000 + 270 T - 30 T ln T J/mol (the README's closed loop): lower and upper critical points
+    const terms = [{ a: -30000, b: 270, c: -30 }];
+    const model = redlichKister(terms);
+    const excess = (T: number) => terms[0].a + terms[0].b * T + terms[0].c * T * Math.log(T) - 2 * R_SPEC * T;
+    const lower = bisect(excess, 100, 1000), upper = bisect(excess, 2000, 5000);
+    const table = gapTable(model, evenTemperatures(400, 3500, 5), 1, criticalPoints(model));
+    const want = [400, lower, 1950, upper, 3500];
+    // critical temperatures from the core's search (~1e-13 relative) against bisection to the last
+    // bit of the closed form: 1e-9 relative allowed
+    table.forEach((row, i) => expect(Math.abs(row.T - want[i]) / want[i], `row ${i}: ${row.T}`).toBeLessThan(1e-9));
+    expect(table.map((r) => r.critical)).toEqual([false, true, false, true, false]);
+    // critical composition of a one-term (symmetric) series: xc = 1/2 (spec closed form); the
+    // core's critical search resolves xc to ~1e-12 (critical.test.ts), 1e-9 allowed
+    for (const row of [table[1], table[3]]) for (const v of [row.low, row.high, row.spinLow, row.spinHigh]) expect(Math.abs(v - 0.5)).toBeLessThan(1e-9);
+  });
+});

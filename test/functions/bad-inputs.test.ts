@@ -14,8 +14,8 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { generateCustomFunctionsMetadata } from 'custom-functions-metadata';
 import type { HyperFormula } from 'hyperformula';
 import { CellFailure, type CellErrorCode } from '../../src/functions/errors';
-import * as fit from '../../src/functions/fitting';
-import * as f from '../../src/functions/functions';
+import * as fitFns from '../../src/functions/fitting';
+import * as fns from '../../src/functions/functions';
 import type { CustomFunctionsMetadata } from '../../src/hosts/engine';
 import { evaluateFormulas } from '../../src/hosts/evaluate';
 import { buildMixgapEngine } from '../../src/hosts/mixgap-engine';
@@ -41,7 +41,8 @@ interface Row {
   engine?: boolean;
 }
 
-const rows: Row[] = [
+/** The table, calling the cell functions of `f` (functions.ts) and `fit` (fitting.ts). */
+const table = (f: typeof fns, fit: typeof fitFns): Row[] => [
   // --- text, empty cells and booleans where a number goes ---
   { formula: 'GAPLOW("abc", 21000)', call: () => f.gapLow('abc' as any, OMEGA as any), code: '#VALUE!', message: /T is the text "abc": give a number/, when: 'text where a number goes' },
   { formula: 'GAPHIGH(800, 21000, "two")', call: () => f.gapHigh(800, OMEGA as any, 'two' as any), code: '#VALUE!', message: /gap is the text "two": give a number/, when: 'text where a number goes' },
@@ -95,6 +96,10 @@ const rows: Row[] = [
   // rounding of it) but say that the parameters are too large for this quantity
   { formula: 'ACTIVITY(0.5, 800, 1E12)', call: () => f.activity(0.5, 800, 1e12 as any), code: '#NUM!', message: /too large|overflow/, when: 'a result beyond the range of numbers (parameters far too large)', engine: true },
   { formula: 'ACTCOEF(0.5, 800, 1E12, "A")', call: () => f.actCoef(0.5, 800, 1e12 as any, 'A'), code: '#NUM!', message: /too large|overflow/, when: 'a result beyond the range of numbers (parameters far too large)' },
+  // A chain's activity below the smallest normal double (Flory–Huggins, 10000-mer at phi = 0.1,
+  // chi = 0.55: ln a = -4546.4): not 0, not a subnormal with lost digits, but an error that points to
+  // CHEMPOT, which keeps the logarithm (issue "polymer activities per molecule")
+  { formula: 'ACTIVITY(0.1, 300, FH card with NB = 10000, chi.A = 0.55)', call: () => f.activity(0.1, 300, card(['model', 'fh'], ['NA', 1], ['NB', 10000], ['chi.A', 0.55])), code: '#NUM!', message: /exp\(-4546\.4\), below 2\.2e-308.*CHEMPOT/, when: 'an activity or activity coefficient below 2.2e-308 (long chains): CHEMPOT gives RT ln a' },
   { formula: 'GMIX(0.5, 800, {1E308,1E308})', call: () => f.gMix(0.5, 800, [[1e308, 1e308]]), code: '#NUM!', message: /too large|overflow/, when: 'a result beyond the range of numbers (parameters far too large)' },
   { formula: 'TCRIT(1E12)', call: () => f.tCrit(1e12 as any), code: '#N/A', message: /no critical point between 1 K and 20000 K/, when: 'no critical point in 1 K to 20000 K (Tc = Omega/2R = 6e10 K here)' },
   { formula: 'TCRIT(1E-300)', call: () => f.tCrit(1e-300 as any), code: '#N/A', message: /no critical point between 1 K and 20000 K/, when: 'no critical point in 1 K to 20000 K' },
@@ -149,6 +154,22 @@ const rows: Row[] = [
   { formula: 'FITCRIT("abc")', call: () => fit.fitCrit('abc' as any), code: '#VALUE!', message: /Tc is the text "abc": give a number/, when: 'text where a number goes' },
   { formula: 'GAPRESID(800, 0.05, 21000, "middle")', call: () => fit.gapResid(800, 0.05, OMEGA as any, 'middle'), code: '#VALUE!', message: /"middle".*"low".*"high"/, when: 'a phase other than "low" or "high"' },
 ];
+const rows = table(fns, fitFns);
+const f = fns;
+
+/** functions.json as the build generates it from the JSDoc of src/functions (generated once). */
+let generatedMetadata: Promise<CustomFunctionsMetadata> | undefined;
+function metadata(): Promise<CustomFunctionsMetadata> {
+  generatedMetadata ??= (async () => {
+    const root = path.join(__dirname, '..', '..');
+    // eslint-disable-next-line @typescript-eslint/no-require-imports
+    const sources: string[] = require('../../src/functions/sources.js').map((s: string) => path.join(root, 'src', 'functions', s));
+    const generated = await generateCustomFunctionsMetadata(sources, false);
+    expect(generated.errors).toEqual([]);
+    return JSON.parse(generated.metadataJson) as CustomFunctionsMetadata;
+  })();
+  return generatedMetadata;
+}
 
 /** The CellFailure a call throws; a returned value or any other exception is reported as such. */
 function outcome(call: () => unknown): CellFailure | string {
@@ -180,12 +201,7 @@ describe('bad inputs, called directly: a CellFailure with the right code and a m
 describe('bad inputs through the embedded formula engine: the code and the message reach the cell', () => {
   let engine: HyperFormula;
   beforeAll(async () => {
-    const root = path.join(__dirname, '..', '..');
-    // eslint-disable-next-line @typescript-eslint/no-require-imports
-    const sources: string[] = require('../../src/functions/sources.js').map((s: string) => path.join(root, 'src', 'functions', s));
-    const generated = await generateCustomFunctionsMetadata(sources, false);
-    expect(generated.errors).toEqual([]);
-    engine = buildMixgapEngine(JSON.parse(generated.metadataJson) as CustomFunctionsMetadata);
+    engine = buildMixgapEngine(await metadata());
   });
 
   /** Formula text of the rows marked `engine` (cards and ranges written as inline arrays). */
@@ -243,4 +259,103 @@ describe('bad inputs through the embedded formula engine: the code and the messa
     expect(got.map((r) => r[0])).toEqual([300, 500, 700, 900]);
     for (const r of got) for (const c of r.slice(1)) expect((c as { error?: string }).error).toBe('#N/A');
   });
+});
+
+/**
+ * Issue "messages speak the card's units": the whole table again, each call's parameters turned
+ * into a card in °C (temperature arguments T, T1, T2 moved by -273.15, the same physics) and into a
+ * card in kJ/mol (energies divided by 1000). Each call must fail with the same code, and every
+ * temperature or energy its message names must be in the card's unit: "800 K" in the kelvin
+ * message is "526.85 °C" in the °C one, no number is followed by " K" there, and no number by
+ * " J/mol" in the kJ/mol one. Parameters that cannot be a card (malformed ranges, empty params)
+ * run unchanged and their messages must name no temperature or energy at all.
+ */
+describe('bad inputs in a °C card and a kJ/mol card: every message names temperatures and energies in the card\'s units', () => {
+  type Unit = '°C' | 'kJ/mol';
+  let names: Map<string, string[]>;
+  beforeAll(async () => {
+    names = new Map((await metadata()).functions.map((m) => [m.id, m.parameters.map((p) => p.name)]));
+  });
+
+  const isCard = (p: unknown): p is unknown[][] =>
+    Array.isArray(p) && Array.isArray(p[0]) && typeof (p[0] as unknown[])[0] === 'string';
+  const keyOf = (row: unknown[]) => (typeof row[0] === 'string' ? row[0].trim().toLowerCase() : '');
+  const ENERGY_KEY = /^(omega|l\d+(\.[bc])?)$/;
+
+  /** params as a card in `unit`, or undefined when they cannot be one. */
+  function toCard(p: unknown, unit: Unit): unknown[][] | undefined {
+    const unitRow = unit === '°C' ? ['temperature', '°C'] : ['energy', 'kJ/mol'];
+    const scale = (key: string, v: unknown) => (unit === 'kJ/mol' && ENERGY_KEY.test(key) && typeof v === 'number' ? v / 1000 : v);
+    if (typeof p === 'number' && Number.isFinite(p)) return [['model', 'regular'], ['omega', scale('omega', p)], unitRow];
+    if (isCard(p)) {
+      if (p.some((row) => keyOf(row) === unitRow[0])) return undefined; // the card has its own unit already
+      return [...p.map((row) => [row[0], scale(keyOf(row), row[1]), ...row.slice(2)]), unitRow];
+    }
+    // numeric Redlich–Kister rows a, b, c: L_k, L_k.b, L_k.c
+    if (Array.isArray(p) && p.length > 0 && p.every((r) => Array.isArray(r) && r.length <= 3 && r.length > 0 && r.every((v) => typeof v === 'number' && Number.isFinite(v)))) {
+      const rows = (p as number[][]).flatMap((r, k) => r.map((v, c) => [`L${k}${['', '.b', '.c'][c]}`, scale('l0', v)]));
+      return [['model', 'rk'], ...rows, unitRow];
+    }
+    return undefined;
+  }
+
+  /** The cell functions of `mod` with their params turned into a card in `unit`; `converted` says whether it was. */
+  function inUnit<M extends object>(mod: M, unit: Unit, converted: { value: boolean }): M {
+    const wrapped: Record<string, unknown> = {};
+    for (const [name, fn] of Object.entries(mod)) {
+      if (typeof fn !== 'function') { wrapped[name] = fn; continue; }
+      wrapped[name] = (...args: unknown[]) => {
+        const params = names.get(name.toUpperCase()) ?? [];
+        const at = params.indexOf('params');
+        const card = at >= 0 ? toCard(args[at], unit) : undefined;
+        converted.value = card !== undefined;
+        if (!card) return fn(...args);
+        const out = args.slice();
+        out[at] = card;
+        if (unit === '°C') params.forEach((p, i) => { if (/^T\d?$/.test(p) && typeof out[i] === 'number') out[i] = (out[i] as number) - 273.15; });
+        return fn(...out);
+      };
+    }
+    return wrapped as M;
+  }
+
+  /** Numbers written before a unit in a message. */
+  const amounts = (text: string, unit: string) =>
+    [...text.matchAll(new RegExp(`(-?\\d+(?:\\.\\d+)?(?:e[+-]?\\d+)?) ${unit.replace('/', '\\/')}(?![\\w/])`, 'g'))].map((m) => Number(m[1]));
+
+  for (const unit of ['°C', 'kJ/mol'] as const) {
+    it(`every row with a ${unit} card`, () => {
+      const converted = { value: false };
+      const inCard = table(inUnit(fns, unit, converted), inUnit(fitFns, unit, converted));
+      let cards = 0, named = 0;
+      rows.forEach((row, i) => {
+        const plain = outcome(row.call);
+        const got = outcome(inCard[i].call);
+        if (typeof plain === 'string' || typeof got === 'string') expect.fail(`${row.formula} in ${unit}: ${typeof got === 'string' ? got : plain}`);
+        const where = `${row.formula} in a ${unit} card: "${got.message}"`;
+        expect(got.code, where).toBe(plain.code);
+        // kelvin and J/mol named in the plain message, and what the card's message must say instead
+        const kelvins = amounts(plain.message, 'K'), joules = amounts(plain.message, 'J/mol');
+        if (!converted.value) {
+          expect(kelvins.length + joules.length, `${row.formula}: params not expressible as a card, yet its message names a quantity`).toBe(0);
+          return;
+        }
+        cards++;
+        named += kelvins.length + joules.length;
+        if (unit === '°C') {
+          expect(amounts(got.message, 'K'), where).toEqual([]);
+          // the number typed, or a search bound, converted: 12 significant digits drop the
+          // round-off of the conversion (800 - 273.15 = 526.8500000000000227)
+          for (const K of kelvins) expect(got.message, where).toContain(`${Number((K - 273.15).toPrecision(12))} °C`);
+        } else {
+          expect(amounts(got.message, 'J/mol'), where).toEqual([]);
+          for (const J of joules) expect(got.message, where).toContain(`${Number((J / 1000).toPrecision(12))} kJ/mol`);
+          for (const K of kelvins) expect(got.message, where).toContain(`${K} K`);
+        }
+      });
+      // most rows carry a card, and the table names temperatures (no gap at T, search bounds ...)
+      expect(cards).toBeGreaterThan(60);
+      expect(named).toBeGreaterThan(10);
+    });
+  }
 });

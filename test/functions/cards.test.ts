@@ -105,7 +105,7 @@ describe('every model through a card gives the numbers of the core model built d
       });
       for (const x of xs) {
         // the same arithmetic on the same parameters: bit-exact
-        const a = activities(iso, x);
+        const a = activities(model, T, x);
         expect(activity(x, T, card as any, 'A')).toBe(Math.exp(a.lnA));
         expect(activity(x, T, card as any, 'B')).toBe(Math.exp(a.lnB));
         expect(actCoef(x, T, card as any, 'A')).toBe(Math.exp(a.lnGammaA));

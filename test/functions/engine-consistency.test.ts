@@ -180,7 +180,7 @@ describe('the engine gives the core\'s numbers', () => {
         [`=MIXGAP.SPINHIGH(${T}, ${c})`, map.spinodal[1].x],
         [`=MIXGAP.TCRIT(${c})`, cp.T],
         [`=MIXGAP.XCRIT(${c})`, cp.x],
-        ...extra(x, T, c, iso, map, activities(iso, x)),
+        ...extra(x, T, c, iso, map, activities(model, T, x)),
       ];
       forgetSolves();
       const got = evaluateFormulas(engine, pairs.map(([f]) => f));

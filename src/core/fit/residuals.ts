@@ -3,7 +3,7 @@
  * common-tangent solver computes at T, minus the measured composition.
  */
 import type { PhaseMap } from '../binodal';
-import { fail } from '../errors';
+import { fail, kelvin, msg } from '../errors';
 
 /**
  * Residual x_model - x_measured of a measured boundary point on the `side` ('low': A-rich,
@@ -13,11 +13,11 @@ import { fail } from '../errors';
 export function boundaryResidual(map: PhaseMap, x: number, side: 'low' | 'high', n?: number): number {
   const { gaps, T } = map;
   if (gaps.length === 0) {
-    fail('none', `the model has no miscibility gap at T = ${T} K, so no boundary to compare with (the measured point lies outside its dome)`);
+    fail('none', msg`the model has no miscibility gap at T = ${kelvin(T)}, so no boundary to compare with (the measured point lies outside its dome)`);
   }
   if (n !== undefined) {
     if (!(Number.isInteger(n) && n >= 1 && n <= gaps.length)) {
-      fail('range', `gap ${n} does not exist at T = ${T} K: the model has ${gaps.length} (numbered from low x)`);
+      fail('range', msg`gap ${n} does not exist at T = ${kelvin(T)}: the model has ${gaps.length} (numbered from low x)`);
     }
     return gaps[n - 1][side].x - x;
   }

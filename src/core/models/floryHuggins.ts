@@ -29,6 +29,7 @@ export function floryHuggins(p: FloryHugginsParameters): BinaryModel {
   const { NA, NB, A, B } = p;
   return {
     key: `FH:${NA},${NB},${A},${B}`,
+    sites: { A: NA, B: NB }, // g is per mole of sites; a molecule of A (B) occupies N_A (N_B) of them
     at: (T) => new FloryHugginsIsotherm(NA, NB, A + B / T, T),
   };
 }

@@ -71,10 +71,10 @@ describe('diagram data', () => {
     const sys = system(card);
     const misleading = { ...sys, description: 'NRTL; composition = volume fraction of Q; temperatures in K; A = P, B = Q; upper critical point' };
     expect(diagramLabels(misleading)).toEqual(diagramLabels(sys));
-    expect(diagramLabels(misleading)).toEqual({ temperatureUnit: '°C', compositionLabel: 'Mole fraction of Bexium', title: 'Miscibility gap, Avarite–Bexium' });
+    expect(diagramLabels(misleading)).toEqual({ temperatureUnit: '°C', compositionLabel: 'Mole fraction of Bexium', compositionLabelA: 'Mole fraction of Avarite', title: 'Miscibility gap, Avarite–Bexium' });
     // and the structured fields do move them: a Flory–Huggins card is drawn in volume fractions
     const fh = diagramLabels(system([['model', 'fh'], ['NA', 1], ['NB', 50], ['chi.B', 400], ['name B', 'resin']]));
-    expect(fh).toEqual({ temperatureUnit: 'K', compositionLabel: 'Volume fraction of resin', title: 'Miscibility gap, A–resin' });
+    expect(fh).toEqual({ temperatureUnit: 'K', compositionLabel: 'Volume fraction of resin', compositionLabelA: 'Volume fraction of A', title: 'Miscibility gap, A–resin' });
   });
 
   test('another temperature unit redraws the card in it', () => {

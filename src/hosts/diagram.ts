@@ -237,7 +237,7 @@ const multiple = (k: number, step: number) => Number((k * step).toPrecision(12))
 /**
  * The automatic linear composition range: every composition on the picture (binodal, spinodal,
  * critical points, marks) with a margin of 5 % of their spread on each side, widened to whole
- * ticks of a 1-2-5 step (about ten ticks across), within 0 to 1. A plotting rule, common practice.
+ * ticks of a 1-2-5 step (ten or so across), within 0 to 1. A plotting rule, common practice.
  */
 export function linearDomain(xs: number[]): [number, number] {
   const finite = xs.filter((x) => Number.isFinite(x));
@@ -247,7 +247,7 @@ export function linearDomain(xs: number[]): [number, number] {
   const margin = Math.max(0.05 * (hi - lo), 0.005);
   const from = Math.max(0, lo - margin);
   const to = Math.min(1, hi + margin);
-  const step = niceStep((to - from) / 10);
+  const step = niceStep((to - from) / 12);
   return [Math.max(0, multiple(Math.floor(from / step + 1e-9), step)), Math.min(1, multiple(Math.ceil(to / step - 1e-9), step))];
 }
 

@@ -192,11 +192,13 @@ export async function main(argv: string[]): Promise<number> {
     .option('--rows <n>', 'temperatures computed per gap (GAPTABLE rows, default 201)', positiveInteger)
     .option('--mark <x>', 'an overall composition to mark: a number, a formula such as Ageing!B4, or LABEL=... (repeatable)', collect, [])
     .option('--title <text>', 'title of the picture')
+    .option('--full-range', 'composition axis from 0 to 1 (default: around everything drawn, with a margin)')
+    .option('--log <component>', 'logarithmic composition axis: B for x (a dilute branch near x = 0), A for 1 - x (near x = 1)')
     .option('-o, --output <path>', 'OUT for OUT.svg and OUT.png, or a folder')
     .addHelpText('after', DIAGRAM_HELP)
     .action(async (card: string, opts: {
       sheet?: string; range?: string; tmin?: number; tmax?: number; temperatureUnit?: string;
-      rows?: number; mark: string[]; title?: string; output?: string;
+      rows?: number; mark: string[]; title?: string; output?: string; fullRange?: boolean; log?: string;
     }) => {
       const metadata = loadMetadata();
       if (!existsSync(card)) throw new Error(`no such file: ${card}`);
@@ -211,6 +213,7 @@ export async function main(argv: string[]): Promise<number> {
       }
       const data = diagramData(metadata, source.grid, {
         tmin: opts.tmin, tmax: opts.tmax, rows: opts.rows, temperatureUnit: opts.temperatureUnit, marks, title: opts.title,
+        fullRange: opts.fullRange, log: opts.log,
       });
       const svg = await renderSvg(diagramSpec(data));
       const base = diagramBase(card, opts.output);

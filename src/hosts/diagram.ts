@@ -31,6 +31,25 @@ export interface DiagramOptions {
   /** Overall compositions to mark with their labels. */
   marks?: Array<{ x: number; label: string }>;
   title?: string;
+  /** Draw the whole composition range 0 to 1 instead of the automatic range. */
+  fullRange?: boolean;
+  /**
+   * A logarithmic composition axis of the fraction of this component: "B" (x itself, for a dilute
+   * branch near x = 0) or "A" (1 - x, for one near x = 1); the card's component names also do.
+   */
+  log?: string;
+}
+
+/**
+ * The composition axis: which fraction it shows (B: x; A: 1 - x), on which scale, over which
+ * domain (in the fraction shown, low to high; an A axis is drawn reversed, so that A-rich
+ * compositions stay on the left as on the linear axis).
+ */
+export interface CompositionAxis {
+  scale: 'linear' | 'log';
+  component: 'A' | 'B';
+  domain: [number, number];
+  title: string;
 }
 
 export interface DiagramPoint {
@@ -49,6 +68,8 @@ export interface DiagramData {
   tmax: number;
   temperatureUnit: string;
   compositionLabel: string;
+  /** The composition axis the picture is drawn on. */
+  axis: CompositionAxis;
   title: string;
   /** What CHECKCARD says of the card. */
   card: string;
@@ -121,7 +142,12 @@ export function diagramData(metadata: CustomFunctionsMetadata, grid: CardGrid, o
 
     // Units, names and the composition variable from the card as the functions read it (the same
     // reading CHECKCARD made just above), never from CHECKCARD's sentence.
-    const labels = diagramLabels(system(card));
+    const sys = system(card);
+    const labels = diagramLabels(sys);
+    const logComponent = options.log === undefined ? undefined : componentOf(options.log, sys);
+    if (logComponent && options.fullRange) {
+      throw new Error('a logarithmic axis cannot show x = 0 or x = 1: choose either the full range 0 to 1 (--full-range) or the log axis (--log)');
+    }
     const unit = labels.temperatureUnit;
     const { tmin, tmax } = temperatureRange(critical, unit, options);
     const rows = options.rows ?? 201;
@@ -154,14 +180,21 @@ export function diagramData(metadata: CustomFunctionsMetadata, grid: CardGrid, o
       points.push(...found);
     }
 
+    const shownCritical = critical.filter((c) => c.T >= tmin && c.T <= tmax);
+    const marks = options.marks ?? [];
+    const xs = [...points.map((p) => p.x), ...shownCritical.map((c) => c.x), ...marks.map((m) => m.x)];
+    const axis: CompositionAxis = logComponent
+      ? { scale: 'log', component: logComponent, domain: logDomain(xs.map((x) => (logComponent === 'A' ? 1 - x : x))), title: `${logComponent === 'A' ? labels.compositionLabelA : labels.compositionLabel} (log scale${logComponent === 'A' ? ', falling to the right' : ''})` }
+      : { scale: 'linear', component: 'B', domain: options.fullRange ? [0, 1] : linearDomain(xs), title: labels.compositionLabel };
     return {
       points,
-      critical: critical.filter((c) => c.T >= tmin && c.T <= tmax),
-      marks: options.marks ?? [],
+      critical: shownCritical,
+      marks,
       tmin,
       tmax,
       temperatureUnit: unit,
       compositionLabel: labels.compositionLabel,
+      axis,
       title: options.title ?? labels.title,
       card: description,
     };
@@ -171,14 +204,68 @@ export function diagramData(metadata: CustomFunctionsMetadata, grid: CardGrid, o
 }
 
 /** The picture's labels from the structured system: temperature unit, composition axis, title. */
-export function diagramLabels(sys: System): { temperatureUnit: string; compositionLabel: string; title: string } {
+export function diagramLabels(sys: System): { temperatureUnit: string; compositionLabel: string; compositionLabelA: string; title: string } {
   const named = sys.names.A !== 'A' || sys.names.B !== 'B';
   const fraction = sys.composition.charAt(0).toUpperCase() + sys.composition.slice(1);
   return {
     temperatureUnit: sys.temperature.name,
     compositionLabel: `${fraction} of ${sys.names.B}`,
+    compositionLabelA: `${fraction} of ${sys.names.A}`,
     title: named ? `Miscibility gap, ${sys.names.A}–${sys.names.B}` : 'Miscibility gap',
   };
+}
+
+/** The component a --log option names: "A", "B" or one of the card's component names. */
+function componentOf(text: string, sys: System): 'A' | 'B' {
+  const t = text.trim().toLowerCase();
+  if (t === 'b' || t === sys.names.B.toLowerCase()) return 'B';
+  if (t === 'a' || t === sys.names.A.toLowerCase()) return 'A';
+  const names = sys.names.A !== 'A' || sys.names.B !== 'B' ? ` (or ${sys.names.B}, ${sys.names.A})` : '';
+  throw new Error(`--log ${text}: give the component whose fraction the log axis shows, B (x, for a dilute branch near x = 0) or A (1 - x, near x = 1)${names}`);
+}
+
+/** The 1-2-5 step (times a power of ten) nearest above `raw`. */
+function niceStep(raw: number): number {
+  const decade = 10 ** Math.floor(Math.log10(raw));
+  const step = [1, 2, 5, 10].find((m) => m * decade >= raw * (1 - 1e-9))!;
+  return step * decade;
+}
+
+/** k * step without the binary noise of the product (0.30000000000000004 -> 0.3). */
+const multiple = (k: number, step: number) => Number((k * step).toPrecision(12));
+
+/**
+ * The automatic linear composition range: every composition on the picture (binodal, spinodal,
+ * critical points, marks) with a margin of 5 % of their spread on each side, widened to whole
+ * ticks of a 1-2-5 step (ten or so across), within 0 to 1. A plotting rule, common practice.
+ */
+export function linearDomain(xs: number[]): [number, number] {
+  const finite = xs.filter((x) => Number.isFinite(x));
+  if (finite.length === 0) return [0, 1];
+  const lo = Math.min(...finite);
+  const hi = Math.max(...finite);
+  const margin = Math.max(0.05 * (hi - lo), 0.005);
+  const from = Math.max(0, lo - margin);
+  const to = Math.min(1, hi + margin);
+  const step = niceStep((to - from) / 12);
+  return [Math.max(0, multiple(Math.floor(from / step + 1e-9), step)), Math.min(1, multiple(Math.ceil(to / step - 1e-9), step))];
+}
+
+/** The most decades a log axis spans: smaller compositions run off its low end. */
+export const LOG_DECADES = 10;
+
+/**
+ * The automatic logarithmic range of the fractions `vs` (x, or 1 - x on an A axis): from the
+ * decade below the smallest (a tenth of a decade of margin) to the 1-2-5 value above the largest
+ * (capped at 1), at most LOG_DECADES decades; fractions of 0 cannot be shown and are left out.
+ */
+export function logDomain(vs: number[]): [number, number] {
+  const positive = vs.filter((v) => v > 0 && Number.isFinite(v));
+  if (positive.length === 0) throw new Error('nothing on the picture has a composition a logarithmic axis can show: draw it on the linear axis (leave out --log)');
+  const hi = Math.min(1, niceStep(Math.max(...positive) * 10 ** 0.05));
+  const lowest = Math.floor(Math.log10(Math.min(...positive)) - 0.1);
+  const top = Math.ceil(Math.log10(hi) - 1e-9);
+  return [Number(`1e${Math.max(lowest, top - LOG_DECADES)}`), hi];
 }
 
 /**
@@ -231,14 +318,102 @@ const FONT = 'DejaVu Sans';
 
 const round = (v: number, digits = 4) => Number(v.toPrecision(digits));
 
+/** The size of the plot (the data rectangle inside the axes), in SVG pixels. */
+export const PLOT = { width: 640, height: 440 };
+
+/** The fraction the composition axis shows for a composition x (x itself, or 1 - x on an A axis). */
+function shown(axis: CompositionAxis, x: number): number {
+  return axis.component === 'A' ? 1 - x : x;
+}
+
+/** Where a shown fraction lies across the plot: 0 at the left edge, 1 at the right edge. */
+export function across(axis: CompositionAxis, v: number): number {
+  const [lo, hi] = axis.domain;
+  const t = axis.scale === 'log' ? Math.log10(v / lo) / Math.log10(hi / lo) : (v - lo) / (hi - lo);
+  return axis.component === 'A' ? 1 - t : t;
+}
+
+/**
+ * The ticks of a log axis over `domain`: its decades (and 2 and 5 times them when it spans two
+ * decades or less), and its top when that is not a decade and lies at least 40 pixels from the
+ * last one, so that no two labels overlap.
+ */
+export function logTicks([lo, hi]: [number, number]): number[] {
+  const first = Math.ceil(Math.log10(lo) - 1e-9);
+  const last = Math.floor(Math.log10(hi) + 1e-9);
+  const decades = Math.log10(hi / lo);
+  const steps = decades <= 2 + 1e-9 ? [1, 2, 5] : [1];
+  const ticks: number[] = [];
+  for (let k = first - 1; k <= last; k++) {
+    for (const m of steps) {
+      const t = Number(`${m}e${k}`);
+      if (t >= lo * (1 - 1e-9) && t <= hi * (1 + 1e-9)) ticks.push(t);
+    }
+  }
+  const gap = (Math.log10(hi) - Math.log10(ticks[ticks.length - 1] ?? lo)) / decades * PLOT.width;
+  if (ticks.length === 0 || gap >= 40) ticks.push(hi);
+  return ticks;
+}
+
+/** Where a temperature lies down the plot: 0 at the top edge, 1 at the bottom edge. */
+const down = (d: DiagramData, T: number) => (d.tmax - T) / (d.tmax - d.tmin);
+
+/** Width of a line of DejaVu Sans text, estimated generously (its advance is about 0.55 em on average). */
+const textWidth = (text: string, fontSize: number) => text.length * fontSize * 0.62;
+
+/**
+ * Where a critical point's label goes: above the point for an upper critical point (the gap lies
+ * below), beneath it for a lower one, on the other side when the edge is too near; centred on the
+ * point, or starting (ending) at it when a centred label would cross the left (right) edge.
+ */
+function criticalLabelMark(d: DiagramData, c: DiagramData['critical'][number], label: string): Record<string, unknown> {
+  const fontSize = 12;
+  const px = across(d.axis, shown(d.axis, c.x)) * PLOT.width;
+  const py = down(d, c.T) * PLOT.height;
+  const w = textWidth(label, fontSize);
+  const align = px - w / 2 < 4 ? 'left' : px + w / 2 > PLOT.width - 4 ? 'right' : 'center';
+  const dx = align === 'left' ? Math.max(-4, 2 - px) : align === 'right' ? Math.min(4, PLOT.width - 2 - px) : 0;
+  const room = 9 + fontSize + 2;
+  const above = c.kind === 'lower' ? py + room > PLOT.height : py - room >= 0;
+  return {
+    type: 'text', align, dx, baseline: above ? 'bottom' : 'top', dy: above ? -9 : 9,
+    fontSize, color: 'black', limit: PLOT.width - 8,
+  };
+}
+
+/** The label of a marked composition runs up its rule from the bottom, on its left (on its right near the left edge). */
+function markLabelMark(d: DiagramData, x: number): Record<string, unknown> {
+  const fontSize = 11;
+  const px = across(d.axis, shown(d.axis, x)) * PLOT.width;
+  const left = px >= fontSize + 8;
+  return {
+    type: 'text', align: 'left', angle: 270, dx: 6, baseline: left ? 'bottom' : 'top', dy: left ? -4 : 4,
+    fontSize, color: '#2e7d32', limit: PLOT.height - 12,
+  };
+}
+
 /** The vega-lite specification of the picture. */
 export function diagramSpec(d: DiagramData): Record<string, unknown> {
   const tTitle = `Temperature (${d.temperatureUnit})`;
-  const x = { field: 'x', type: 'quantitative', title: d.compositionLabel, scale: { domain: [0, 1], nice: false, padding: 0 }, axis: { tickCount: 10 } };
+  const { axis } = d;
+  const [lo, hi] = axis.domain;
+  // On a log axis a fraction below the axis (or of 0) is drawn far off its low end and cut off there,
+  // so that the line still runs to the edge.
+  const v = (x: number) => (axis.scale === 'log' ? Math.max(shown(axis, x), lo * 1e-6) : shown(axis, x));
+  const inside = (x: number) => { const t = across(axis, shown(axis, x)); return t >= -1e-9 && t <= 1 + 1e-9; };
+  const scale = axis.scale === 'log'
+    ? { type: 'log', domain: [lo, hi], nice: false, reverse: axis.component === 'A' }
+    : { type: 'linear', domain: [lo, hi], nice: false, zero: false, padding: 0 };
+  // A log axis is labelled at the ticks of logTicks: 0.001 and above as decimals, smaller
+  // fractions as powers of ten (1e-5).
+  const xAxis = axis.scale === 'log'
+    ? { values: logTicks(axis.domain), labelExpr: "datum.value >= 0.001 ? format(datum.value, '~g') : format(datum.value, '.0e')", labelOverlap: false }
+    : { tickCount: 10 };
+  const x = { field: 'v', type: 'quantitative', title: axis.title, scale, axis: xAxis };
   const y = { field: 'T', type: 'quantitative', title: tTitle, scale: { domain: [d.tmin, d.tmax], zero: false, nice: false, padding: 0 } };
   const layers: Record<string, unknown>[] = [
     {
-      data: { values: d.points },
+      data: { values: d.points.map((p) => ({ ...p, v: v(p.x) })) },
       mark: { type: 'line', strokeWidth: 2.2, clip: true },
       encoding: {
         x, y,
@@ -249,32 +424,26 @@ export function diagramSpec(d: DiagramData): Record<string, unknown> {
       },
     },
   ];
-  if (d.critical.length > 0) {
-    const crit = d.critical.map((c) => ({ ...c, label: `${c.kind} critical point: ${round(c.T)} ${d.temperatureUnit}, x = ${round(c.x, 3)}` }));
-    layers.push(
-      { data: { values: crit }, mark: { type: 'point', filled: true, size: 90, color: 'black', shape: 'circle' }, encoding: { x, y } },
-      {
-        data: { values: crit },
-        mark: { type: 'text', align: 'center', baseline: 'bottom', dy: -9, fontSize: 12, color: 'black' },
-        encoding: { x, y, text: { field: 'label' } },
-      },
-    );
+  const critical = d.critical.filter((c) => inside(c.x));
+  if (critical.length > 0) {
+    const crit = critical.map((c) => ({ ...c, v: v(c.x), label: `${c.kind} critical point: ${round(c.T)} ${d.temperatureUnit}, x = ${round(c.x, 3)}` }));
+    layers.push({ data: { values: crit }, mark: { type: 'point', filled: true, size: 90, color: 'black', shape: 'circle' }, encoding: { x, y } });
+    for (const c of crit) {
+      layers.push({ data: { values: [c] }, mark: criticalLabelMark(d, c, c.label), encoding: { x, y, text: { field: 'label' } } });
+    }
   }
-  if (d.marks.length > 0) {
-    layers.push(
-      { data: { values: d.marks }, mark: { type: 'rule', color: '#2e7d32', strokeWidth: 1.5, strokeDash: [2, 3] }, encoding: { x } },
-      {
-        data: { values: d.marks.map((m) => ({ ...m, T: d.tmin })) },
-        mark: { type: 'text', align: 'left', baseline: 'bottom', angle: 270, dx: 6, dy: -4, fontSize: 11, color: '#2e7d32' },
-        encoding: { x, y, text: { field: 'label' } },
-      },
-    );
+  const marks = d.marks.filter((m) => inside(m.x)).map((m) => ({ ...m, v: v(m.x), T: d.tmin }));
+  if (marks.length > 0) {
+    layers.push({ data: { values: marks }, mark: { type: 'rule', color: '#2e7d32', strokeWidth: 1.5, strokeDash: [2, 3] }, encoding: { x } });
+    for (const m of marks) {
+      layers.push({ data: { values: [m] }, mark: markLabelMark(d, m.x), encoding: { x, y, text: { field: 'label' } } });
+    }
   }
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
     title: { text: d.title, subtitle: wrap(d.card, 95), subtitleFontSize: 10, anchor: 'start' },
-    width: 640,
-    height: 440,
+    width: PLOT.width,
+    height: PLOT.height,
     background: 'white',
     config: { font: FONT, axis: { labelFontSize: 12, titleFontSize: 13, grid: true, gridOpacity: 0.35 }, legend: { labelFontSize: 12, orient: 'bottom', direction: 'horizontal' } },
     layer: layers,

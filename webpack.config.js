@@ -92,6 +92,15 @@ function devServer() {
   };
 }
 
+/**
+ * Packages bundled into the node build (all others are required from node_modules at run time):
+ * - mathjs, tree-shaken to the unit system we use (as in the web bundle): required whole from
+ *   node_modules it builds every function it has, about 70 MB at start-up;
+ * - HyperFormula and the packages it needs: required from node_modules it is some 230 files to
+ *   find and read, a good part of the start-up of `mixgap eval` (measured by `npm run bench`).
+ */
+const BUNDLED = /^(mathjs|hyperformula|chevrotain|regexp-to-ast|tiny-emitter)(\/|$)/;
+
 const node = (env, argv) => ({
   ...common(argv),
   name: 'node',
@@ -100,6 +109,9 @@ const node = (env, argv) => ({
   output: {
     path: path.join(dist, 'node'),
     filename: '[name].js',
+    // The command loads what a subcommand needs when it runs (import() in cli.ts): those parts are
+    // chunks beside cli.js, required from there.
+    chunkFilename: 'chunk-[name].js',
     library: { type: 'commonjs2' },
     clean: true,
   },
@@ -110,12 +122,10 @@ const node = (env, argv) => ({
   },
   // __dirname stays the bundle's own folder, so the CLI finds ../functions.json beside it.
   node: { __dirname: false, __filename: false },
-  // Dependencies stay in node_modules and are required at run time.
+  // Dependencies stay in node_modules and are required at run time, except BUNDLED (above).
   externalsPresets: { node: true },
   externals: [({ request }, callback) => {
-    // mathjs is bundled (tree-shaken to the unit system we use, as in the web bundle): required
-    // whole from node_modules it builds every function it has, about 70 MB at start-up.
-    if (/^[a-z@][^:]*$/i.test(request) && !request.startsWith('.') && !request.startsWith('mathjs')) {
+    if (/^[a-z@][^:]*$/i.test(request) && !request.startsWith('.') && !BUNDLED.test(request)) {
       return callback(null, `commonjs ${request}`);
     }
     return callback();

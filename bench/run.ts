@@ -11,7 +11,9 @@ import type { BinaryModel } from '../src/core/model';
 import { floryHuggins } from '../src/core/models/floryHuggins';
 import { nrtl } from '../src/core/models/nrtl';
 import { redlichKister } from '../src/core/models/redlichKister';
-import { execFileSync } from 'child_process';
+import { execFileSync, spawnSync } from 'child_process';
+import os from 'os';
+import path from 'path';
 import * as cells from '../src/functions/functions';
 import { fitTieLines } from '../src/core/fit/tieLines';
 import * as fitCells from '../src/functions/fitting';
@@ -62,7 +64,11 @@ const models: Array<[string, BinaryModel, number, number]> = [
 ];
 
 if (process.argv[2] === 'memory') memory();
-else main();
+else if (process.argv[2] === 'startup') startup();
+else {
+  main();
+  startup();
+}
 
 function main() {
 console.log(`Mixgap benchmark, node ${process.version}, ${new Date().toISOString()}\n`);
@@ -185,3 +191,39 @@ function worstCases() {
   report('worst case measured', `${fmt(worst.us)}`, worst.what);
 }
 
+
+// ---------------------------------------------------------------------------------------------
+// Start-up of the command: `mixgap eval '=1'` (launcher, bundle, engine, one formula) against a
+// bare `node -e 0`, each started the same way (a fresh process from here, output discarded), in
+// alternation so that a change of load on the machine hits both. Target: within 0.35 s of node.
+// `node dist/node/bench.js startup` runs this section alone.
+// ---------------------------------------------------------------------------------------------
+function startup() {
+  console.log('\nStart-up of the command (median wall time of a fresh process)');
+  const bin = path.join(__dirname, '..', '..', 'bin', 'mixgap.js');
+  const runs = 15;
+  const time = (args: string[]): number => {
+    const t0 = performance.now();
+    const p = spawnSync(process.execPath, args, { stdio: ['ignore', 'ignore', 'pipe'] });
+    const ms = performance.now() - t0;
+    if (p.status !== 0) throw new Error(`node ${args.join(' ')} failed: ${p.stderr}`);
+    return ms;
+  };
+  const cases: Array<[string, string[]]> = [
+    ['node -e 0', ['-e', '0']],
+    ["mixgap eval '=1'", [bin, 'eval', '=1']],
+    ["mixgap eval '=MIXGAP.TCRIT(21000)' (loads the cell functions)", [bin, 'eval', '=MIXGAP.TCRIT(21000)']],
+    ['mixgap --help', [bin, '--help']],
+  ];
+  const times = cases.map(() => [] as number[]);
+  for (const [, args] of cases) time(args); // warm the file cache
+  for (let r = 0; r < runs; r++) cases.forEach(([, args], k) => times[k].push(time(args)));
+  const bare = median(times[0]);
+  report('node -e 0 (bare Node start)', `${(bare / 1000).toFixed(3)} s`);
+  cases.slice(1).forEach(([what], k) => {
+    const t = median(times[k + 1]);
+    const target = k === 0 ? `target: within 0.35 s of node (${t - bare < 350 ? 'met' : 'NOT met'})` : '';
+    report(`${what}: time, above node, ratio`, `${(t / 1000).toFixed(3)} s +${((t - bare) / 1000).toFixed(3)} x${(t / bare).toFixed(1)}`, target);
+  });
+  report('load average of the machine (1 min) after these runs', os.loadavg()[0].toFixed(2), `${os.cpus().length} cores`);
+}

@@ -7,14 +7,11 @@
 import { existsSync, readFileSync, statSync, writeFileSync } from 'fs';
 import path from 'path';
 import { Command, CommanderError, InvalidArgumentError } from 'commander';
-import { calcWorkbook, formatSummary, writeAtomically } from './calc';
-import { cardFromCsv, cardFromXlsx, evaluateMarks } from './card-source';
-import { diagramData, diagramSpec, renderPng, renderSvg } from './diagram';
+// Only types at the top: what a subcommand needs (the engine and the functions, ExcelJS, the
+// plotting stack) is loaded by its action, so that `mixgap eval` does not pay for ExcelJS and
+// `mixgap --help` pays for nothing. `webpackMode: "eager"` keeps it all in the one bundle file.
 import type { CustomFunctionsMetadata } from './engine';
-import { NAMESPACE } from './engine';
-import { evaluateFormulas } from './evaluate';
 import type { FormulaResult, ResultCell } from './evaluate';
-import { buildMixgapEngine } from './mixgap-engine';
 
 const EVAL_HELP = `
 Each FORMULA is evaluated as if typed into a cell of its own sheet, e.g.
@@ -148,7 +145,15 @@ export async function main(argv: string[]): Promise<number> {
       const formulas = formulaArgs.length > 0
         ? formulaArgs
         : (await readStdin()).split(/\r?\n/).filter((line) => line.trim() !== '');
-      const engine = buildMixgapEngine(loadMetadata());
+      const metadata = loadMetadata();
+      // Loading the cell functions builds the cards' unit system (mathjs), a good part of the
+      // start-up: a formula can only call one if its text names it, so only then are they loaded.
+      const [{ buildEngine, NAMESPACE }, { evaluateFormulas }, { spillShape }] = await Promise.all([
+        import(/* webpackChunkName: "engine" */ './engine'), import(/* webpackChunkName: "engine" */ './evaluate'),
+        import(/* webpackChunkName: "engine" */ '../functions/shapes')]);
+      const callsMixgap = formulas.some((f) => f.toUpperCase().includes(`${NAMESPACE}.`));
+      const implementations = callsMixgap ? await import(/* webpackChunkName: "functions" */ '../functions/index') : {};
+      const engine = buildEngine(metadata, implementations, spillShape);
       const results = evaluateFormulas(engine, formulas);
       engine.destroy();
       process.stdout.write(opts.json ? `${JSON.stringify(results)}\n` : results.map((r) => `${formatPlain(r)}\n`).join(''));
@@ -157,7 +162,8 @@ export async function main(argv: string[]): Promise<number> {
   program
     .command('functions')
     .description('list the Mixgap cell functions: one line per signature, then its description indented')
-    .action(() => {
+    .action(async () => {
+      const { NAMESPACE } = await import(/* webpackChunkName: "engine" */ './engine');
       for (const f of loadMetadata().functions) {
         const params = f.parameters.map((p) => (p.optional ? `[${p.name}]` : p.name)).join(', ');
         const description = (f.description ?? '').replace(/\s+/g, ' ').trim();
@@ -173,6 +179,7 @@ export async function main(argv: string[]): Promise<number> {
     .option('-q, --quiet', 'no progress bar and no summary')
     .addHelpText('after', CALC_HELP)
     .action(async (workbook: string, opts: { output?: string; quiet?: boolean }) => {
+      const { calcWorkbook, formatSummary } = await import(/* webpackChunkName: "calc" */ './calc');
       const result = await calcWorkbook(workbook, loadMetadata(), {
         output: opts.output,
         progressStream: opts.quiet ? undefined : process.stderr,
@@ -198,6 +205,9 @@ export async function main(argv: string[]): Promise<number> {
       sheet?: string; range?: string; tmin?: number; tmax?: number; temperatureUnit?: string;
       rows?: number; mark: string[]; title?: string; output?: string;
     }) => {
+      const [{ writeAtomically }, { cardFromCsv, cardFromXlsx, evaluateMarks }, { diagramData, diagramSpec, renderPng, renderSvg }] =
+        await Promise.all([import(/* webpackChunkName: "calc" */ './calc'), import(/* webpackChunkName: "diagram" */ './card-source'),
+          import(/* webpackChunkName: "diagram" */ './diagram')]);
       const metadata = loadMetadata();
       if (!existsSync(card)) throw new Error(`no such file: ${card}`);
       const isXlsx = /\.xlsx$/i.test(card);

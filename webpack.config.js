@@ -1,6 +1,8 @@
 // Two builds from one source tree:
 //  - web:  the Excel custom-functions runtime page (dist/functions.{js,html,json} + dist/assets
-//          + dist/help/<ID>.html); `npm start` serves it at https://localhost:3000 (devServer below)
+//          + dist/help/<ID>.html + dist/manifest.xml); `npm start` serves it at
+//          https://localhost:3000 (devServer below). MIXGAP_BASE_URL=https://host/folder/ builds it
+//          for that address instead: every URL of the add-in follows (src/hosts/excel/deployment.js).
 //  - node: the `mixgap` command (dist/node/cli.js), which reads dist/functions.json at run time.
 const fs = require('fs');
 const os = require('os');
@@ -9,6 +11,8 @@ const CustomFunctionsMetadataPlugin = require('custom-functions-metadata-plugin'
 const HtmlWebpackPlugin = require('html-webpack-plugin');
 const CopyWebpackPlugin = require('copy-webpack-plugin');
 const { HelpPagesPlugin } = require('./src/hosts/excel/help-pages.js');
+const { BASE_VARIABLE, DEV_BASE, DeploymentPlugin, baseAddress } = require('./src/hosts/excel/deployment.js');
+const { version } = require('./package.json');
 
 const dist = path.resolve(__dirname, 'dist');
 const functionsEntry = './src/functions/index.ts';
@@ -30,6 +34,13 @@ const common = (argv) => ({
   resolve: { extensions: ['.ts', '.js'] },
   module: { rules: [typescriptRule] },
 });
+
+/** The address the web build is for: `npm start` always serves at DEV_BASE. */
+function webBase() {
+  if (!process.env.WEBPACK_SERVE) return baseAddress(process.env[BASE_VARIABLE]);
+  if (process.env[BASE_VARIABLE]) console.warn(`${BASE_VARIABLE} is ignored by npm start, which serves at ${DEV_BASE}`);
+  return DEV_BASE;
+}
 
 const web = (env, argv) => ({
   ...common(argv),
@@ -58,6 +69,8 @@ const web = (env, argv) => ({
     }),
     // help/<ID>.html for every function of functions.json, and help/index.html.
     new HelpPagesPlugin(),
+    // Every URL for the address of this build; manifest.xml with it and the package's version.
+    new DeploymentPlugin({ base: webBase(), version, template: path.resolve(__dirname, 'manifest.xml') }),
   ],
   // Only `webpack serve` (npm start) reads this, and with it the development certificates.
   ...(process.env.WEBPACK_SERVE ? { devServer: devServer() } : {}),

@@ -10,6 +10,7 @@ import { Command, CommanderError, InvalidArgumentError } from 'commander';
 // Only types at the top: what a subcommand needs (the engine and the functions, ExcelJS, the
 // plotting stack) is loaded by its action, so that `mixgap eval` does not pay for ExcelJS and
 // `mixgap --help` pays for nothing. `webpackMode: "eager"` keeps it all in the one bundle file.
+import pkg from '../../package.json';
 import type { CustomFunctionsMetadata } from './engine';
 import type { FormulaResult, ResultCell } from './evaluate';
 
@@ -130,6 +131,7 @@ async function readStdin(): Promise<string> {
 export async function main(argv: string[]): Promise<number> {
   const program = new Command('mixgap')
     .description('Miscibility gaps of binary solutions, as spreadsheet cell functions, from the command line.')
+    .version(pkg.version, '-V, --version', 'print the version of Mixgap')
     .exitOverride()
     .showHelpAfterError();
 

@@ -89,6 +89,17 @@ describe('mixgap functions', () => {
   });
 });
 
+describe('mixgap --version', () => {
+  test('prints the version of package.json and exits 0', () => {
+    const { version } = JSON.parse(readFileSync(path.join(root, 'package.json'), 'utf8'));
+    for (const flag of ['--version', '-V']) {
+      const r = mixgap([flag]);
+      expect(r.status, flag).toBe(0);
+      expect(r.stdout, flag).toBe(`${version}\n`);
+    }
+  });
+});
+
 describe('bin/mixgap.js without a build', () => {
   test('says to run the build and exits 2', () => {
     const dir = mkdtempSync(path.join(os.tmpdir(), 'mixgap-nobuild-'));

@@ -180,10 +180,18 @@ interface DiagramOptions {
 }
 
 /** `mixgap diagram`: OUT.svg and OUT.png of a card, and what they show. */
-async function diagramAction(card: string, opts: DiagramOptions): Promise<void> {
-  const [{ writeAtomically }, { cardFromCsv, cardFromXlsx, evaluateMarks }, { diagramData, diagramSpec, renderPng, renderSvg }] =
+async function diagramAction(card: string, opts: DiagramOptions, command: Command): Promise<void> {
+  const [{ writeAtomically }, { cardFromCsv, cardFromXlsx, evaluateMarks }, { diagramData, diagramSpec, renderPng, renderSvg }, { temperatureUnit }] =
     await Promise.all([import(/* webpackChunkName: "calc" */ './calc'), import(/* webpackChunkName: "diagram" */ './card-source'),
-      import(/* webpackChunkName: "diagram" */ './diagram')]);
+      import(/* webpackChunkName: "diagram" */ './diagram'), import(/* webpackChunkName: "diagram" */ '../core/units')]);
+  if (opts.temperatureUnit !== undefined) {
+    // A unit the cards do not read is the option's fault, not the card's: a usage error (exit 1).
+    try {
+      temperatureUnit(opts.temperatureUnit);
+    } catch (e) {
+      command.error(`error: option '--temperature-unit <unit>' argument '${opts.temperatureUnit}' is invalid. ${(e as Error).message}`);
+    }
+  }
   const metadata = loadMetadata();
   if (!existsSync(card)) throw new Error(`no such file: ${card}`);
   const isXlsx = /\.xlsx$/i.test(card);

@@ -1,6 +1,8 @@
 // Two builds from one source tree:
 //  - web:  the Excel custom-functions runtime page (dist/functions.{js,html,json} + dist/assets
-//          + dist/help/<ID>.html); `npm start` serves it at https://localhost:3000 (devServer below)
+//          + dist/help/<ID>.html + dist/manifest.xml); `npm start` serves it at
+//          https://localhost:3000 (devServer below). MIXGAP_BASE_URL=https://host/folder/ builds it
+//          for that address instead: every URL of the add-in follows (src/hosts/excel/deployment.js).
 //  - node: the `mixgap` command (dist/node/cli.js), which reads dist/functions.json at run time.
 const fs = require('fs');
 const os = require('os');
@@ -9,6 +11,8 @@ const CustomFunctionsMetadataPlugin = require('custom-functions-metadata-plugin'
 const HtmlWebpackPlugin = require('html-webpack-plugin');
 const CopyWebpackPlugin = require('copy-webpack-plugin');
 const { HelpPagesPlugin } = require('./src/hosts/excel/help-pages.js');
+const { BASE_VARIABLE, DEV_BASE, DeploymentPlugin, baseAddress } = require('./src/hosts/excel/deployment.js');
+const { version } = require('./package.json');
 
 const dist = path.resolve(__dirname, 'dist');
 const functionsEntry = './src/functions/index.ts';
@@ -30,6 +34,13 @@ const common = (argv) => ({
   resolve: { extensions: ['.ts', '.js'] },
   module: { rules: [typescriptRule] },
 });
+
+/** The address the web build is for: `npm start` always serves at DEV_BASE. */
+function webBase() {
+  if (!process.env.WEBPACK_SERVE) return baseAddress(process.env[BASE_VARIABLE]);
+  if (process.env[BASE_VARIABLE]) console.warn(`${BASE_VARIABLE} is ignored by npm start, which serves at ${DEV_BASE}`);
+  return DEV_BASE;
+}
 
 const web = (env, argv) => ({
   ...common(argv),
@@ -58,6 +69,8 @@ const web = (env, argv) => ({
     }),
     // help/<ID>.html for every function of functions.json, and help/index.html.
     new HelpPagesPlugin(),
+    // Every URL for the address of this build; manifest.xml with it and the package's version.
+    new DeploymentPlugin({ base: webBase(), version, template: path.resolve(__dirname, 'manifest.xml') }),
   ],
   // Only `webpack serve` (npm start) reads this, and with it the development certificates.
   ...(process.env.WEBPACK_SERVE ? { devServer: devServer() } : {}),
@@ -92,6 +105,15 @@ function devServer() {
   };
 }
 
+/**
+ * Packages bundled into the node build (all others are required from node_modules at run time):
+ * - mathjs, tree-shaken to the unit system we use (as in the web bundle): required whole from
+ *   node_modules it builds every function it has, about 70 MB at start-up;
+ * - HyperFormula and the packages it needs: required from node_modules it is some 230 files to
+ *   find and read, a good part of the start-up of `mixgap eval` (measured by `npm run bench`).
+ */
+const BUNDLED = /^(mathjs|hyperformula|chevrotain|regexp-to-ast|tiny-emitter)(\/|$)/;
+
 const node = (env, argv) => ({
   ...common(argv),
   name: 'node',
@@ -100,6 +122,9 @@ const node = (env, argv) => ({
   output: {
     path: path.join(dist, 'node'),
     filename: '[name].js',
+    // The command loads what a subcommand needs when it runs (import() in cli.ts): those parts are
+    // chunks beside cli.js, required from there.
+    chunkFilename: 'chunk-[name].js',
     library: { type: 'commonjs2' },
     clean: true,
   },
@@ -110,12 +135,10 @@ const node = (env, argv) => ({
   },
   // __dirname stays the bundle's own folder, so the CLI finds ../functions.json beside it.
   node: { __dirname: false, __filename: false },
-  // Dependencies stay in node_modules and are required at run time.
+  // Dependencies stay in node_modules and are required at run time, except BUNDLED (above).
   externalsPresets: { node: true },
   externals: [({ request }, callback) => {
-    // mathjs is bundled (tree-shaken to the unit system we use, as in the web bundle): required
-    // whole from node_modules it builds every function it has, about 70 MB at start-up.
-    if (/^[a-z@][^:]*$/i.test(request) && !request.startsWith('.') && !request.startsWith('mathjs')) {
+    if (/^[a-z@][^:]*$/i.test(request) && !request.startsWith('.') && !BUNDLED.test(request)) {
       return callback(null, `commonjs ${request}`);
     }
     return callback();

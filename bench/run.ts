@@ -11,7 +11,10 @@ import type { BinaryModel } from '../src/core/model';
 import { floryHuggins } from '../src/core/models/floryHuggins';
 import { nrtl } from '../src/core/models/nrtl';
 import { redlichKister } from '../src/core/models/redlichKister';
-import { execFileSync } from 'child_process';
+import { execFileSync, spawnSync } from 'child_process';
+import { readFileSync } from 'fs';
+import os from 'os';
+import path from 'path';
 import * as cells from '../src/functions/functions';
 import { fitTieLines } from '../src/core/fit/tieLines';
 import * as fitCells from '../src/functions/fitting';
@@ -62,7 +65,11 @@ const models: Array<[string, BinaryModel, number, number]> = [
 ];
 
 if (process.argv[2] === 'memory') memory();
-else main();
+else if (process.argv[2] === 'startup') startup();
+else {
+  main();
+  startup();
+}
 
 function main() {
 console.log(`Mixgap benchmark, node ${process.version}, ${new Date().toISOString()}\n`);
@@ -185,3 +192,57 @@ function worstCases() {
   report('worst case measured', `${fmt(worst.us)}`, worst.what);
 }
 
+
+// ---------------------------------------------------------------------------------------------
+// Start-up of the command: `mixgap eval '=1'` (launcher, bundle, engine, one formula) against a
+// bare `node -e 0`, each started the same way (a fresh process from here, output discarded), in
+// alternation so that a change of load on the machine hits both. Target: within 0.35 s of node.
+// `node dist/node/bench.js startup` runs this section alone.
+// ---------------------------------------------------------------------------------------------
+function startup() {
+  console.log('\nStart-up of the command (median over fresh processes; wall time, and CPU time where /proc tells it)');
+  const bin = path.join(__dirname, '..', '..', 'bin', 'mixgap.js');
+  const runs = 15;
+  // CPU time (user + system) of the waited-for children of this process, in ms: fields 16 and 17
+  // of /proc/self/stat, in clock ticks of 10 ms (Linux). Less moved by other load than wall time.
+  const childCpu = (): number | undefined => {
+    try {
+      const fields = readFileSync('/proc/self/stat', 'utf8').replace(/^.*\) /, '').split(' ');
+      return (Number(fields[13]) + Number(fields[14])) * 10;
+    } catch {
+      return undefined;
+    }
+  };
+  const time = (args: string[]): { wall: number; cpu?: number } => {
+    const cpu0 = childCpu();
+    const t0 = performance.now();
+    const p = spawnSync(process.execPath, args, { stdio: ['ignore', 'ignore', 'pipe'] });
+    const wall = performance.now() - t0;
+    const cpu1 = childCpu();
+    if (p.status !== 0) throw new Error(`node ${args.join(' ')} failed: ${p.stderr}`);
+    return { wall, cpu: cpu0 === undefined || cpu1 === undefined ? undefined : cpu1 - cpu0 };
+  };
+  const cases: Array<[string, string[]]> = [
+    ['node -e 0', ['-e', '0']],
+    ["mixgap eval '=1'", [bin, 'eval', '=1']],
+    ["mixgap eval '=MIXGAP.TCRIT(21000)' (loads the cell functions)", [bin, 'eval', '=MIXGAP.TCRIT(21000)']],
+    ['mixgap --help', [bin, '--help']],
+  ];
+  const samples = cases.map(() => [] as Array<{ wall: number; cpu?: number }>);
+  for (const [, args] of cases) time(args); // warm the file cache
+  for (let r = 0; r < runs; r++) cases.forEach(([, args], k) => samples[k].push(time(args)));
+  const wall = samples.map((v) => median(v.map((t) => t.wall)));
+  const cpu = samples.map((v) => (v.every((t) => t.cpu !== undefined) ? median(v.map((t) => t.cpu!)) : undefined));
+  const s = (ms: number) => `${(ms / 1000).toFixed(3)} s`;
+  report('node -e 0 (bare Node start): wall', s(wall[0]));
+  if (cpu[0] !== undefined) report('node -e 0 (bare Node start): CPU', s(cpu[0]));
+  cases.slice(1).forEach(([what], j) => {
+    const k = j + 1;
+    const target = j === 0 ? `target: within 0.35 s of node (${wall[k] - wall[0] < 350 ? 'met' : 'NOT met'})` : '';
+    report(`${what}: wall, above node, ratio`, `${s(wall[k])} +${s(wall[k] - wall[0])} x${(wall[k] / wall[0]).toFixed(1)}`, target);
+    if (cpu[k] !== undefined && cpu[0] !== undefined) {
+      report(`${what}: CPU, above node`, `${s(cpu[k])} +${s(cpu[k] - cpu[0])}`);
+    }
+  });
+  report('load average of the machine (1 min) after these runs', os.loadavg()[0].toFixed(2), `${os.cpus().length} cores`);
+}

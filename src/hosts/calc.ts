@@ -8,6 +8,7 @@ import path from 'path';
 import { SingleBar, Presets } from 'cli-progress';
 import ExcelJS from 'exceljs';
 import type { CustomFunctionsMetadata } from './engine';
+import { isFolderPath } from './output-path';
 import { buildMixgapEngine } from './mixgap-engine';
 import { evaluateWorkbook, WORKBOOK_ENGINE_CONFIG } from './workbook';
 import type { CellErrorReport, WorkbookReport } from './workbook';
@@ -24,8 +25,7 @@ export function computedName(input: string): string {
  */
 export function outputPath(input: string, output?: string): string {
   if (!output) return path.join(path.dirname(input), computedName(input));
-  const isFolder = /[\\/]$/.test(output) || (existsSync(output) && statSync(output).isDirectory());
-  return isFolder ? path.join(output, computedName(input)) : output;
+  return isFolderPath(output) ? path.join(output, computedName(input)) : output;
 }
 
 /** Writes with `write` to a temporary file beside `target`, then renames it to `target`. */

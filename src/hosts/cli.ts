@@ -4,17 +4,15 @@
  * `mixgap calc` computes a whole .xlsx workbook; `mixgap diagram` draws a phase diagram of a card.
  * Bundled to dist/node/cli.js, it reads dist/functions.json (beside the bundle's folder) at run time.
  */
-import { existsSync, readFileSync, statSync, writeFileSync } from 'fs';
+import { existsSync, readFileSync, writeFileSync } from 'fs';
 import path from 'path';
 import { Command, CommanderError, InvalidArgumentError } from 'commander';
-import { calcWorkbook, formatSummary, writeAtomically } from './calc';
-import { cardFromCsv, cardFromXlsx, evaluateMarks } from './card-source';
-import { diagramData, diagramSpec, renderPng, renderSvg } from './diagram';
+import pkg from '../../package.json';
+// Only types from the other host modules here: what a subcommand needs (the engine and the
+// functions, ExcelJS, the plotting stack) is loaded by its action (see the actions below).
 import type { CustomFunctionsMetadata } from './engine';
-import { NAMESPACE } from './engine';
-import { evaluateFormulas } from './evaluate';
 import type { FormulaResult, ResultCell } from './evaluate';
-import { buildMixgapEngine } from './mixgap-engine';
+import { isFolderPath } from './output-path';
 
 const EVAL_HELP = `
 Each FORMULA is evaluated as if typed into a cell of its own sheet, e.g.
@@ -92,6 +90,8 @@ Every point comes from the cell functions (GAPTABLE, TCRIT, XCRIT, CRITKIND, CHE
 
 Temperatures (--tmin, --tmax, the axis) are in the card's temperature unit, or in --temperature-unit.
 Default range: from half the lowest critical temperature (in kelvin) to 6 % above the highest.
+The composition axis covers everything drawn with a margin; --full-range draws 0 to 1, and
+--log B (or --log A) a logarithmic axis of x (or of 1 - x) for a branch that hugs an axis.
 
 Writes OUT.svg and OUT.png: -o OUT (a trailing .svg or .png is dropped), or -o FOLDER/ for
 FOLDER/<name>.diagram.*; default <name>.diagram.svg and .png beside CARD.
@@ -119,8 +119,7 @@ function collect(value: string, previous: string[]): string[] {
 function diagramBase(card: string, output?: string): string {
   const name = `${path.basename(card).replace(/\.(csv|xlsx)$/i, '')}.diagram`;
   if (!output) return path.join(path.dirname(card), name);
-  const isFolder = /[\\/]$/.test(output) || (existsSync(output) && statSync(output).isDirectory());
-  return isFolder ? path.join(output, name) : output.replace(/\.(svg|png)$/i, '');
+  return isFolderPath(output) ? path.join(output, name) : output.replace(/\.(svg|png)$/i, '');
 }
 
 async function readStdin(): Promise<string> {
@@ -129,58 +128,132 @@ async function readStdin(): Promise<string> {
   return Buffer.concat(chunks).toString('utf8');
 }
 
-/** Runs the command with `argv` as in process.argv; resolves to the exit status. */
-export async function main(argv: string[]): Promise<number> {
-  const program = new Command('mixgap')
+// ---------------------------------------------------------------------------------------------
+// The actions, one per subcommand. Each loads what it needs when it runs (`import()`, a chunk of
+// the bundle), so that starting the command costs only what the subcommand uses.
+// ---------------------------------------------------------------------------------------------
+
+interface EvalOptions { json?: boolean }
+
+/** `mixgap eval`: each formula in a cell of its own; one line (or JSON entry) per formula. */
+async function evalAction(formulaArgs: string[], opts: EvalOptions): Promise<void> {
+  const formulas = formulaArgs.length > 0
+    ? formulaArgs
+    : (await readStdin()).split(/\r?\n/).filter((line) => line.trim() !== '');
+  const metadata = loadMetadata();
+  const [{ buildEngine, NAMESPACE }, { evaluateFormulas }, { spillShape }] = await Promise.all([
+    import(/* webpackChunkName: "engine" */ './engine'), import(/* webpackChunkName: "engine" */ './evaluate'),
+    import(/* webpackChunkName: "engine" */ '../functions/shapes')]);
+  // Loading the cell functions builds the cards' unit system (mathjs), a good part of the
+  // start-up: a formula can only call one if its text names it, so only then are they loaded.
+  const callsMixgap = formulas.some((f) => f.toUpperCase().includes(`${NAMESPACE}.`));
+  const implementations = callsMixgap ? await import(/* webpackChunkName: "functions" */ '../functions/index') : {};
+  const engine = buildEngine(metadata, implementations, spillShape);
+  const results = evaluateFormulas(engine, formulas);
+  engine.destroy();
+  process.stdout.write(opts.json ? `${JSON.stringify(results)}\n` : results.map((r) => `${formatPlain(r)}\n`).join(''));
+}
+
+/** `mixgap functions`: one line per signature, then its description indented. */
+async function functionsAction(): Promise<void> {
+  const { NAMESPACE } = await import(/* webpackChunkName: "engine" */ './engine');
+  for (const f of loadMetadata().functions) {
+    const params = f.parameters.map((p) => (p.optional ? `[${p.name}]` : p.name)).join(', ');
+    const description = (f.description ?? '').replace(/\s+/g, ' ').trim();
+    process.stdout.write(`${NAMESPACE}.${f.name}(${params})\n${description ? `    ${description}\n` : ''}`);
+  }
+}
+
+interface CalcOptions { output?: string; quiet?: boolean }
+
+/** `mixgap calc`: the computed copy of a workbook, and a summary. */
+async function calcAction(workbook: string, opts: CalcOptions): Promise<void> {
+  const { calcWorkbook, formatSummary } = await import(/* webpackChunkName: "calc" */ './calc');
+  const result = await calcWorkbook(workbook, loadMetadata(), {
+    output: opts.output,
+    progressStream: opts.quiet ? undefined : process.stderr,
+  });
+  if (!opts.quiet) process.stdout.write(formatSummary(result));
+}
+
+interface DiagramOptions {
+  sheet?: string; range?: string; tmin?: number; tmax?: number; temperatureUnit?: string;
+  rows?: number; mark: string[]; title?: string; output?: string; fullRange?: boolean; log?: string;
+}
+
+/** `mixgap diagram`: OUT.svg and OUT.png of a card, and what they show. */
+async function diagramAction(card: string, opts: DiagramOptions, command: Command): Promise<void> {
+  const [{ writeAtomically }, { cardFromCsv, cardFromXlsx, evaluateMarks }, { diagramData, diagramSpec, renderPng, renderSvg }, { temperatureUnit }] =
+    await Promise.all([import(/* webpackChunkName: "calc" */ './calc'), import(/* webpackChunkName: "diagram" */ './card-source'),
+      import(/* webpackChunkName: "diagram" */ './diagram'), import(/* webpackChunkName: "diagram" */ '../core/units')]);
+  if (opts.temperatureUnit !== undefined) {
+    // A unit the cards do not read is the option's fault, not the card's: a usage error (exit 1).
+    try {
+      temperatureUnit(opts.temperatureUnit);
+    } catch (e) {
+      command.error(`error: option '--temperature-unit <unit>' argument '${opts.temperatureUnit}' is invalid. ${(e as Error).message}`);
+    }
+  }
+  const metadata = loadMetadata();
+  if (!existsSync(card)) throw new Error(`no such file: ${card}`);
+  const isXlsx = /\.xlsx$/i.test(card);
+  if (isXlsx && !opts.range) throw new Error('an .xlsx card needs --range (e.g. --range Card!A1:B8)');
+  const source = isXlsx ? await cardFromXlsx(card, metadata, opts.range!, opts.sheet) : cardFromCsv(card, metadata);
+  let marks;
+  try {
+    marks = evaluateMarks(source.engine, opts.mark);
+  } finally {
+    source.engine.destroy();
+  }
+  const data = diagramData(metadata, source.grid, {
+    tmin: opts.tmin, tmax: opts.tmax, rows: opts.rows, temperatureUnit: opts.temperatureUnit, marks, title: opts.title,
+    fullRange: opts.fullRange, log: opts.log,
+  });
+  const svg = await renderSvg(diagramSpec(data));
+  const base = diagramBase(card, opts.output);
+  await writeAtomically(`${base}.svg`, async (tmp) => writeFileSync(tmp, svg));
+  await writeAtomically(`${base}.png`, async (tmp) => writeFileSync(tmp, renderPng(svg)));
+  const plural = (n: number, what: string) => `${n} ${what}${n === 1 ? '' : 's'}`;
+  process.stdout.write(`mixgap diagram: ${source.where}\n  ${data.card}\n  ${data.tmin} to ${data.tmax} ${data.temperatureUnit}; ` +
+    `${plural(data.critical.length, 'critical point')} shown; ${plural(data.marks.length, 'marked composition')}\n` +
+    `  ${base}.svg\n  ${base}.png\n`);
+}
+
+// ---------------------------------------------------------------------------------------------
+// The program: subcommands, arguments, options and help texts; the actions above do the work.
+// ---------------------------------------------------------------------------------------------
+
+/** The `mixgap` program with its subcommands. */
+export function program(): Command {
+  const mixgap = new Command('mixgap')
     .description('Miscibility gaps of binary solutions, as spreadsheet cell functions, from the command line.')
+    .version(pkg.version, '-V, --version', 'print the version of Mixgap')
     .exitOverride()
     .showHelpAfterError();
 
-  let status = 0;
-
-  program
+  mixgap
     .command('eval')
     .description('evaluate formulas as typed into spreadsheet cells')
     .argument('[formula...]', 'formulas such as =MIXGAP.TCRIT(21000); none: read them from standard input')
     .option('--json', 'print one JSON array with one entry per formula')
     .addHelpText('after', EVAL_HELP)
-    .action(async (formulaArgs: string[], opts: { json?: boolean }) => {
-      const formulas = formulaArgs.length > 0
-        ? formulaArgs
-        : (await readStdin()).split(/\r?\n/).filter((line) => line.trim() !== '');
-      const engine = buildMixgapEngine(loadMetadata());
-      const results = evaluateFormulas(engine, formulas);
-      engine.destroy();
-      process.stdout.write(opts.json ? `${JSON.stringify(results)}\n` : results.map((r) => `${formatPlain(r)}\n`).join(''));
-    });
+    .action(evalAction);
 
-  program
+  mixgap
     .command('functions')
     .description('list the Mixgap cell functions: one line per signature, then its description indented')
-    .action(() => {
-      for (const f of loadMetadata().functions) {
-        const params = f.parameters.map((p) => (p.optional ? `[${p.name}]` : p.name)).join(', ');
-        const description = (f.description ?? '').replace(/\s+/g, ' ').trim();
-        process.stdout.write(`${NAMESPACE}.${f.name}(${params})\n${description ? `    ${description}\n` : ''}`);
-      }
-    });
+    .action(functionsAction);
 
-  program
+  mixgap
     .command('calc')
     .description('evaluate every formula of an .xlsx workbook and write a copy with the computed values')
     .argument('<workbook>', 'the .xlsx file to evaluate (never modified)')
     .option('-o, --output <path>', 'the copy: a .xlsx file, or a folder for <name>.computed.xlsx')
     .option('-q, --quiet', 'no progress bar and no summary')
     .addHelpText('after', CALC_HELP)
-    .action(async (workbook: string, opts: { output?: string; quiet?: boolean }) => {
-      const result = await calcWorkbook(workbook, loadMetadata(), {
-        output: opts.output,
-        progressStream: opts.quiet ? undefined : process.stderr,
-      });
-      if (!opts.quiet) process.stdout.write(formatSummary(result));
-    });
+    .action(calcAction);
 
-  program
+  mixgap
     .command('diagram')
     .description('draw the phase diagram (binodal, spinodal, critical points) of a parameter card as SVG and PNG')
     .argument('<card>', 'a .csv file of key,value rows, or an .xlsx workbook with --range')
@@ -196,47 +269,24 @@ export async function main(argv: string[]): Promise<number> {
     .option('--log <component>', 'logarithmic composition axis: B for x (a dilute branch near x = 0), A for 1 - x (near x = 1)')
     .option('-o, --output <path>', 'OUT for OUT.svg and OUT.png, or a folder')
     .addHelpText('after', DIAGRAM_HELP)
-    .action(async (card: string, opts: {
-      sheet?: string; range?: string; tmin?: number; tmax?: number; temperatureUnit?: string;
-      rows?: number; mark: string[]; title?: string; output?: string; fullRange?: boolean; log?: string;
-    }) => {
-      const metadata = loadMetadata();
-      if (!existsSync(card)) throw new Error(`no such file: ${card}`);
-      const isXlsx = /\.xlsx$/i.test(card);
-      if (isXlsx && !opts.range) throw new Error('an .xlsx card needs --range (e.g. --range Card!A1:B8)');
-      const source = isXlsx ? await cardFromXlsx(card, metadata, opts.range!, opts.sheet) : cardFromCsv(card, metadata);
-      let marks;
-      try {
-        marks = evaluateMarks(source.engine, opts.mark);
-      } finally {
-        source.engine.destroy();
-      }
-      const data = diagramData(metadata, source.grid, {
-        tmin: opts.tmin, tmax: opts.tmax, rows: opts.rows, temperatureUnit: opts.temperatureUnit, marks, title: opts.title,
-        fullRange: opts.fullRange, log: opts.log,
-      });
-      const svg = await renderSvg(diagramSpec(data));
-      const base = diagramBase(card, opts.output);
-      await writeAtomically(`${base}.svg`, async (tmp) => writeFileSync(tmp, svg));
-      await writeAtomically(`${base}.png`, async (tmp) => writeFileSync(tmp, renderPng(svg)));
-      process.stdout.write(`mixgap diagram: ${source.where}\n  ${data.card}\n  ${data.tmin} to ${data.tmax} ${data.temperatureUnit}; ` +
-        `${data.critical.length} critical point${data.critical.length === 1 ? '' : 's'} shown; ${data.marks.length} marked composition${data.marks.length === 1 ? '' : 's'}\n` +
-        `  ${base}.svg\n  ${base}.png\n`);
-    });
+    .action(diagramAction);
 
+  return mixgap;
+}
+
+/** Runs the command with `argv` as in process.argv; resolves to the exit status. */
+export async function main(argv: string[]): Promise<number> {
   try {
-    await program.parseAsync(argv);
+    await program().parseAsync(argv);
+    return 0;
   } catch (e) {
-    if (e instanceof CommanderError) {
-      // Help and version exit 0; unknown options, missing commands and the like are usage errors.
-      status = e.exitCode === 0 ? 0 : 1;
-    } else if (e instanceof Error && !(e instanceof TypeError || e instanceof ReferenceError)) {
+    // Help and version exit 0; unknown options, missing commands and the like are usage errors.
+    if (e instanceof CommanderError) return e.exitCode === 0 ? 0 : 1;
+    if (e instanceof Error && !(e instanceof TypeError || e instanceof ReferenceError)) {
       // A file that cannot be read or written, a card that cannot be drawn: say what, without a trace.
       process.stderr.write(`mixgap: ${e.message}\n`);
-      status = 1;
-    } else {
-      throw e;
+      return 1;
     }
+    throw e;
   }
-  return status;
 }

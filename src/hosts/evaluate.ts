@@ -4,6 +4,9 @@
  */
 import { DetailedCellError } from 'hyperformula';
 import type { CellValue, HyperFormula } from 'hyperformula';
+import { NAMESPACE } from './engine';
+import { calledNames, readSemicolons } from './formula-text';
+import type { SemicolonReading } from './formula-text';
 
 /** An error as the command reports it: the spreadsheet code and what to fix. */
 export interface ErrorCell {
@@ -57,17 +60,38 @@ export function lowerExponents(formula: string): string {
  * the value of each: the cell's value, or the rows of its spill range.
  */
 export function evaluateFormulas(engine: HyperFormula, formulas: string[]): FormulaResult[] {
+  // `;` between arguments is read as `,` where that is unambiguous (./formula-text).
+  const readings = formulas.map((formula) => readSemicolons(asFormula(formula)));
   const sheets: number[] = [];
   engine.batch(() => {
-    formulas.forEach((formula) => {
+    readings.forEach(({ formula }) => {
       const sheet = engine.getSheetId(engine.addSheet())!; // a fresh, uniquely named sheet
       sheets.push(sheet);
-      engine.setCellContents({ sheet, row: 0, col: 0 }, [[asFormula(formula)]]);
+      engine.setCellContents({ sheet, row: 0, col: 0 }, [[formula]]);
     });
   });
-  return sheets.map((sheet) => {
+  return sheets.map((sheet, i) => {
     const anchor = { sheet, row: 0, col: 0 };
-    if (!engine.isCellPartOfArray(anchor)) return toResultCell(engine.getCellValue(anchor));
+    if (!engine.isCellPartOfArray(anchor)) return explained(engine, readings[i], toResultCell(engine.getCellValue(anchor)));
     return engine.getSheetValues(sheet).map((row) => row.map(toResultCell));
   });
+}
+
+/**
+ * An error of the whole formula with what to do about it, where the engine's own message does not
+ * say: `;` between arguments that could not be read (#ERROR!), a Mixgap function called without
+ * its namespace (#NAME?).
+ */
+function explained(engine: HyperFormula, reading: SemicolonReading, cell: ResultCell): ResultCell {
+  if (cell === null || typeof cell !== 'object') return cell;
+  if (cell.error === '#ERROR!' && reading.hint) return { error: cell.error, message: reading.hint };
+  if (cell.error === '#NAME?') {
+    const registered = new Set(engine.getRegisteredFunctionNames().map((n) => n.toUpperCase()));
+    const ours = calledNames(reading.formula).filter((name) => !registered.has(name) && registered.has(`${NAMESPACE}.${name}`));
+    if (ours.length > 0) {
+      const fix = ours.map((name) => `${NAMESPACE}.${name}(...)`).join(', ');
+      return { error: cell.error, message: `${ours.join(', ')}: Mixgap's functions are called with the ${NAMESPACE}. namespace, as in Excel: write ${fix}` };
+    }
+  }
+  return cell;
 }

@@ -5,7 +5,7 @@
  * ../shared/checks/cli-contract.py and test/functions.
  */
 import { spawnSync } from 'child_process';
-import { copyFileSync, existsSync, mkdirSync, mkdtempSync, readFileSync } from 'fs';
+import { copyFileSync, existsSync, mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'fs';
 import os from 'os';
 import path from 'path';
 import { describe, expect, test } from 'vitest';
@@ -78,6 +78,65 @@ describe('mixgap eval', () => {
   });
 });
 
+describe('mixgap eval: formulas as typed in other Excel languages', () => {
+  // Where "," is the decimal comma (German, French, ...), Excel separates arguments with ";"
+  // (from memory: Microsoft Excel help on the list separator of the regional settings).
+  test('";" between arguments is read as ","; ";" in strings and between array rows is kept', () => {
+    const r = mixgap(['eval', '--json', '=SUM(1;2)', '=MIXGAP.GAPLOW(800; 21000)', '=MIXGAP.GAPLOW(800, 21000)', '="a;b"', '={1,2;3,4}']);
+    expect(r.status).toBe(0);
+    const [sum, semicolons, commas, text, array] = JSON.parse(r.stdout);
+    expect(sum).toBe(3);
+    expect(typeof commas).toBe('number');
+    expect(semicolons).toBe(commas); // the same formula, either separator
+    expect(text).toBe('a;b');
+    expect(array).toEqual([[1, 2], [3, 4]]);
+  });
+
+  test('";" with a decimal comma is not guessed at: the message says to write "," and "."', () => {
+    const r = mixgap(['eval', '=MIXGAP.GAPLOW(800; 21000,5)']);
+    expect(r.status).toBe(0);
+    expect(r.stdout).toMatch(/^#ERROR! {2}.*write "," between arguments and "\." as the decimal point/);
+  });
+
+  test('a Mixgap function without its namespace gives #NAME? saying to add MIXGAP.', () => {
+    const r = mixgap(['eval', '--json', '=GAPLOW(800, 21000)', '=NOSUCHFUNCTION(1)']);
+    expect(r.status).toBe(0);
+    const [missing, unknown] = JSON.parse(r.stdout);
+    expect(missing).toEqual({ error: '#NAME?', message: expect.stringContaining('MIXGAP.GAPLOW(') });
+    expect(unknown.error).toBe('#NAME?');
+    expect(unknown.message).not.toContain('MIXGAP.'); // no hint where there is no such Mixgap function
+  });
+});
+
+describe('mixgap diagram: errors that say what to do', () => {
+  const dir = mkdtempSync(path.join(os.tmpdir(), 'mixgap-diagram-errors-'));
+  const card = path.join(dir, 'card.csv');
+  // Invented card: a regular solution, Omega = 21 kJ/mol.
+  writeFileSync(card, 'model,regular\nomega,21\nenergy,kJ/mol\n');
+
+  test('--temperature-unit F blames the option, not the card', () => {
+    const r = mixgap(['diagram', card, '--temperature-unit', 'F', '-o', `${dir}/`]);
+    expect(r.status).toBe(1);
+    expect(r.stderr).toContain("option '--temperature-unit <unit>' argument 'F' is invalid");
+    expect(r.stderr).toContain('write K or °C');
+    const firstLine = r.stderr.split('\n')[0]; // the help of the subcommand follows
+    expect(firstLine).toContain('write K or °C');
+    expect(firstLine).not.toMatch(/card/i);
+    expect(r.stderr).not.toContain('not usable');
+    expect(existsSync(path.join(dir, 'card.diagram.svg'))).toBe(false);
+  });
+
+  test('a mark without the MIXGAP. namespace says to add it; a mark with ";" between arguments is read', () => {
+    const missing = mixgap(['diagram', card, '--mark', 'GAPLOW(800, 21000)', '-o', `${dir}/`]);
+    expect(missing.status).toBe(1);
+    expect(missing.stderr).toContain('MIXGAP.GAPLOW(');
+    const read = mixgap(['diagram', card, '--mark', 'SUM(0.1; 0.2)', '-o', `${dir}/`]);
+    expect(read.stderr).toBe('');
+    expect(read.status).toBe(0);
+    expect(read.stdout).toContain('1 marked composition');
+  });
+});
+
 describe('mixgap functions', () => {
   test('lists every function of the built metadata under the MIXGAP namespace', () => {
     const metadata = JSON.parse(readFileSync(path.join(root, 'dist', 'functions.json'), 'utf8'));
@@ -86,6 +145,17 @@ describe('mixgap functions', () => {
     const signatures = r.stdout.split('\n').filter((line) => line !== '' && !line.startsWith(' '));
     const names = signatures.map((line) => line.slice(0, line.indexOf('(')));
     expect(names).toEqual(metadata.functions.map((f: { name: string }) => `MIXGAP.${f.name}`));
+  });
+});
+
+describe('mixgap --version', () => {
+  test('prints the version of package.json and exits 0', () => {
+    const { version } = JSON.parse(readFileSync(path.join(root, 'package.json'), 'utf8'));
+    for (const flag of ['--version', '-V']) {
+      const r = mixgap([flag]);
+      expect(r.status, flag).toBe(0);
+      expect(r.stdout, flag).toBe(`${version}\n`);
+    }
   });
 });
 

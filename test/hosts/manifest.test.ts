@@ -1,8 +1,10 @@
 /**
  * Offline checks of manifest.xml (the online validator is out of reach here): it parses, every
  * resid it uses is defined, every URL it names is a file the build puts in dist/, and the namespace
- * is the one the embedded engine uses. Also the help pages: every function of functions.json has
- * one in dist/help/, and every helpUrl of functions.json names a file of the build.
+ * is the one the embedded engine uses; the copy the build writes to dist/ carries the version of
+ * package.json. Also the help pages: every function of functions.json has one in dist/help/, and
+ * every helpUrl of functions.json names a file of the build. (A build for another address:
+ * deployment.test.ts.)
  */
 import { existsSync, readFileSync } from 'fs';
 import path from 'path';
@@ -61,6 +63,17 @@ describe('manifest.xml', () => {
     }
   });
 
+  test('the copy in dist/ is this manifest with the version of package.json', () => {
+    const built = readFileSync(path.join(root, 'dist', 'manifest.xml'), 'utf8');
+    const { version } = JSON.parse(readFileSync(path.join(root, 'package.json'), 'utf8'));
+    // Microsoft, Office Add-ins manifest reference, Version element: n to n.n.n.n.
+    expect(built).toContain(`<Version>${version}.0</Version>`);
+    const withoutVersionAndComment = (xml: string) => xml.replace(/<Version>[^<]*<\/Version>/, '').replace(/<!--[\s\S]*?-->/, '');
+    // The same manifest otherwise, for the address of that build (the development one unless MIXGAP_BASE_URL was set).
+    const base = /<SourceLocation DefaultValue="([^"]*)functions\.html"/.exec(built)![1];
+    expect(withoutVersionAndComment(built)).toBe(withoutVersionAndComment(readFileSync(path.join(root, 'manifest.xml'), 'utf8')).split(DEV_ORIGIN).join(base));
+  });
+
   test('the custom-functions extension point names the three runtime files', () => {
     const point = all('ExtensionPoint').find((el) => el.getAttribute('xsi:type') === 'CustomFunctions')!;
     expect(point).toBeDefined();
@@ -97,11 +110,15 @@ describe('help pages', () => {
   });
 
   test('every helpUrl in functions.json names a file of the build', () => {
+    // The address the build was for (the development one unless MIXGAP_BASE_URL was set).
+    const built = readFileSync(path.join(root, 'dist', 'manifest.xml'), 'utf8');
+    const base = /<SourceLocation DefaultValue="([^"]*)functions\.html"/.exec(built)![1];
     const withHelp = metadata.functions.filter((f) => f.helpUrl !== undefined);
+    expect(withHelp.length).toBe(metadata.functions.length);
     for (const f of withHelp) {
       const url = f.helpUrl!;
-      expect(url.startsWith(DEV_ORIGIN), `${f.id}: ${url}`).toBe(true);
-      const file = path.join(root, 'dist', decodeURIComponent(url.slice(DEV_ORIGIN.length).split(/[?#]/)[0]));
+      expect(url.startsWith(base), `${f.id}: ${url}`).toBe(true);
+      const file = path.join(root, 'dist', decodeURIComponent(url.slice(base.length).split(/[?#]/)[0]));
       expect(existsSync(file), `${f.id}: ${url} -> ${file}`).toBe(true);
     }
   });

@@ -1,7 +1,8 @@
 // Help pages of the cell functions, generated at build time from functions.json (which the metadata
 // plugin generates from the JSDoc tags): dist/help/<ID>.html for every function and
 // dist/help/index.html listing them. Served with the add-in, so `@helpurl
-// https://localhost:3000/help/<ID>.html` in a function's JSDoc opens its page from Excel.
+// https://localhost:3000/help/<ID>.html` in a function's JSDoc opens its page from Excel (a build
+// for another address, MIXGAP_BASE_URL, rewrites that link to it: ./deployment.js).
 'use strict';
 
 const fs = require('fs');

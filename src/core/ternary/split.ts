@@ -462,8 +462,8 @@ export function splitFeed(model: TernaryModel, T: number, xA: number, xB: number
       tries.push(c, [c[0], c[1]], [c[0], c[2]], [c[1], c[2]]);
     } else if (cands.length === 2) tries.push([cands[0].p, cands[1].p]);
     tries.push([z]);
-    for (let t = 0; t < tries.length && t < 12; t++) {
-      const start = tries[t];
+    for (let n = 0; n < tries.length && n < 16; n++) {
+      const start = tries[n];
       const phases = start.length === 1 ? [z] : newton(iso, start, z);
       if (!phases) continue;
       if (phases.length > 1) for (const p of phases) addSample(s, iso, p);
@@ -483,6 +483,14 @@ export function splitFeed(model: TernaryModel, T: number, xA: number, xB: number
         addSample(s, iso, cut);
         // the composition that undercuts the plane is a phase of a better answer: one phase more
         if (phases.length < 3) tries.push([...phases, cut]);
+        // near a plait point the tie-line through a one-phase guess is short: start its other end
+        // beyond the feed, opposite the undercutting composition
+        if (phases.length === 1) {
+          for (const t of [1, 0.3]) {
+            const p = { xA: z.xA + t * (z.xA - cut.xA), xB: z.xB + t * (z.xB - cut.xB), xC: z.xC + t * (z.xC - cut.xC) };
+            if (p.xA > 0 && p.xB > 0 && p.xC > 0) tries.push([p, cut]);
+          }
+        }
         continue;
       }
       const clipped = fractions.map((f) => Math.max(0, f));

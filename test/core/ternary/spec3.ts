@@ -75,15 +75,23 @@ export function fh3G(p: Fh3, T: number, a: number, b: number, c: number): number
   return R_SPEC * T * (xlnx(a) / p.NA + xlnx(b) / p.NB + xlnx(c) / p.NC + chi(p.chiAB) * a * b + chi(p.chiAC) * a * c + chi(p.chiBC) * b * c);
 }
 
+const nrtlCache = new WeakMap<Nrtl3, { T: number; tau: number[][]; G: number[][] }>();
+
 export function nrtl3G(p: Nrtl3, T: number, xA: number, xB: number, xC: number): number {
-  const x = [xA, xB, xC];
-  const tau = (i: number, j: number) => (i === j ? 0 : (p as never)[`a${i + 1}${j + 1}`] + (p as never)[`b${i + 1}${j + 1}`] / T);
-  const alpha = (i: number, j: number) => (p as never)[`alpha${Math.min(i, j) + 1}${Math.max(i, j) + 1}`] as number;
-  const G = (j: number, i: number) => (i === j ? 1 : Math.exp(-alpha(j, i) * tau(j, i)));
+  let c = nrtlCache.get(p);
+  if (!c || c.T !== T) {
+    const tauOf = (i: number, j: number) => (i === j ? 0 : (p as never)[`a${i + 1}${j + 1}`] + (p as never)[`b${i + 1}${j + 1}`] / T);
+    const alpha = (i: number, j: number) => (p as never)[`alpha${Math.min(i, j) + 1}${Math.max(i, j) + 1}`] as number;
+    const tau = [0, 1, 2].map((j) => [0, 1, 2].map((i) => tauOf(j, i)));
+    const G = [0, 1, 2].map((j) => [0, 1, 2].map((i) => (i === j ? 1 : Math.exp(-alpha(j, i) * tau[j][i]))));
+    c = { T, tau, G };
+    nrtlCache.set(p, c);
+  }
+  const x = [xA, xB, xC], { tau, G } = c;
   let e = 0;
   for (let i = 0; i < 3; i++) {
     let S = 0, D = 0;
-    for (let j = 0; j < 3; j++) { S += tau(j, i) * G(j, i) * x[j]; D += G(j, i) * x[j]; }
+    for (let j = 0; j < 3; j++) { S += tau[j][i] * G[j][i] * x[j]; D += G[j][i] * x[j]; }
     e += (x[i] * S) / D;
   }
   return R_SPEC * T * (xlnx(xA) + xlnx(xB) + xlnx(xC) + e);

@@ -162,6 +162,19 @@ describe('phase split of a ternary feed', () => {
       expect(counts.size).toBeGreaterThan(1);
     });
 
+    it(`${name}: 25 random feeds (seed 20261203) give verified splits`, () => {
+      let seed = 20261203;
+      // Park & Miller minimal standard generator (Comm. ACM 31 (1988) 1192)
+      const rnd = () => (seed = (seed * 16807) % 2147483647) / 2147483647;
+      for (let k = 0; k < 25; k++) {
+        let a = rnd(), b = rnd();
+        if (a + b > 1) { a = 1 - a; b = 1 - b; }
+        const z: [number, number, number] = [a, b, 1 - a - b];
+        if (!(z[2] > 0)) continue;
+        expectValidSplit(name, model, g, z, splitFeed(model, T, ...z));
+      }
+    });
+
     it(`${name}: a feed 1e-12 off each edge splits like the binary gap of that pair`, () => {
       for (const pair of ['AB', 'AC', 'BC'] as const) {
         const gap = gapAt(edges[pair], T);

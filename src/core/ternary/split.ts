@@ -502,3 +502,13 @@ export function splitFeed(model: TernaryModel, T: number, xA: number, xB: number
   }
   fail('convergence', `the phase split of the feed (${xA}, ${xB}, ${xC}) at T = ${T} K did not converge to a verified answer`);
 }
+
+/**
+ * Whether the tangent plane of g at p (sum_i mu_i(p) x_i) lies below g over the whole triangle,
+ * checked as the split checks its answers: p is then on the lower convex envelope (stable).
+ */
+export function onEnvelope(model: TernaryModel, T: number, p: TernaryPoint): boolean {
+  const iso = model.at(T), s = samplesAt(model, iso), o = new Float64Array(LOCAL_SIZE);
+  iso.local(p.xA, p.xB, p.xC, o);
+  return cutOf(iso, s, [o[MUA], o[MUB], o[MUC]], [p]) === undefined;
+}

@@ -115,8 +115,9 @@ export function checkComposition(xA: number, xB: number, xC: number, what = 'the
  * Chemical potentials per mole of molecules, N_i mu_i (what users mean for Flory–Huggins; the same
  * as mu_i for mole-fraction models), into out[0..2].
  */
+const loc = new Float64Array(LOCAL_SIZE);
+
 export function perMolecule(model: TernaryModel, iso: TernaryIsotherm, xA: number, xB: number, xC: number, out: Float64Array): void {
-  const loc = new Float64Array(LOCAL_SIZE);
   iso.local(xA, xB, xC, loc);
   out[0] = model.sites[0] * loc[MUA];
   out[1] = model.sites[1] * loc[MUB];

@@ -255,6 +255,9 @@ function residuals(iso: TernaryIsotherm, k: number, x: Float64Array, z: TernaryP
   return norm;
 }
 
+/** Set when Newton ran a fraction below 1e-300 (not representable to full precision). */
+let underflow = false;
+
 /** Newton from the starting phases; the converged phases, or undefined. */
 function newton(iso: TernaryIsotherm, start: TernaryPoint[], z: TernaryPoint): TernaryPoint[] | undefined {
   const k = start.length, n = 2 * k;
@@ -290,6 +293,7 @@ function newton(iso: TernaryIsotherm, start: TernaryPoint[], z: TernaryPoint): T
     for (let tries = 0; tries < 12; tries++) {
       for (let i = 0; i < n; i++) uTry[i] = u[i] + t * step[i];
       for (let q = 0; q < k; q++) fromU(uTry[2 * q], uTry[2 * q + 1], xTry, 3 * q);
+      for (let i = 0; i < 3 * k; i++) if (!(xTry[i] > 1e-300)) underflow = true;
       newNorm = residuals(iso, k, xTry, z, r6);
       if (Number.isFinite(newNorm) && (newNorm < norm || newNorm < 1e-13 || tries === 11)) { accepted = Number.isFinite(newNorm); break; }
       t /= 2;
@@ -310,7 +314,10 @@ function newton(iso: TernaryIsotherm, start: TernaryPoint[], z: TernaryPoint): T
   const out: TernaryPoint[] = [];
   for (let q = 0; q < k; q++) {
     const p = point(xs, 3 * q);
-    if (!(p.xA > 0 && p.xB > 0 && p.xC > 0)) return undefined;
+    if (!(p.xA > 1e-300 && p.xB > 1e-300 && p.xC > 1e-300)) {
+      underflow = true;
+      return undefined;
+    }
     out.push(p);
   }
   // phases that coincide are no split (the trivial solution)
@@ -454,6 +461,7 @@ export function splitFeed(model: TernaryModel, T: number, xA: number, xB: number
   const s = samplesAt(model, iso);
   addSample(s, iso, z);
   const one = new Float64Array(LOCAL_SIZE);
+  underflow = false;
   for (let round = 0; round < 4; round++) {
     const cands = candidates(s, lowerFace(s, z, iso.RT));
     const tries: TernaryPoint[][] = [];
@@ -500,7 +508,9 @@ export function splitFeed(model: TernaryModel, T: number, xA: number, xB: number
     }
     for (const c of cands) addSample(s, iso, c.p);
   }
-  fail('convergence', `the phase split of the feed (${xA}, ${xB}, ${xC}) at T = ${T} K did not converge to a verified answer`);
+  fail('convergence', underflow
+    ? `the phase split of the feed (${xA}, ${xB}, ${xC}) at T = ${T} K did not converge: it appears to need a phase with less than 1e-300 of one component, below what a number can hold`
+    : `the phase split of the feed (${xA}, ${xB}, ${xC}) at T = ${T} K did not converge to a verified answer (a feed very near a plait point or a phase boundary can do this: move it slightly)`);
 }
 
 /**

@@ -227,3 +227,15 @@ describe('phase split of a ternary feed', () => {
     expect(failureReason(() => splitFeed(model, 0, 0.5, 0.3, 0.2))).toBe('range');
   });
 });
+
+describe('what cannot be represented', () => {
+  it('a phase below 1e-300 of a component is a convergence error that says so, not a number', () => {
+    // Polymer B of 1000 sites in a strong non-solvent C: the C-rich phase would hold phi_B ~ e^-800.
+    const model = ternaryFloryHuggins({ NA: 1, NB: 1000, NC: 1, chiAB: { A: 0.45, B: 0 }, chiAC: { A: 1.5, B: 0 }, chiBC: { A: 2.5, B: 0 } });
+    let message = '';
+    expect(failureReason(() => {
+      try { splitFeed(model, T, 0.3, 0.1, 0.6); } catch (e) { message = String(e); throw e; }
+    })).toBe('convergence');
+    expect(message).toMatch(/1e-300/);
+  });
+});

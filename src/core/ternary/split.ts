@@ -14,7 +14,7 @@
  * 2. Newton on the equilibrium equations in log-ratio coordinates u = (ln(x_B/x_A), ln(x_C/x_A)) of
  *    each phase (every fraction then keeps its relative precision, however dilute):
  *    two phases: equal dg/dx_B, dg/dx_C and mu_A, and the feed on the tie-line
- *      (x''_B - x'_B)(z_C - x'_C) - (x''_C - x'_C)(z_B - x'_B) = 0;
+ *      det[x'; x''; z] = 0 (all three fractions of each, relative to the size of its terms);
  *    three phases: equal dg/dx_B, dg/dx_C and mu_A in all three.
  * 3. Check: the plane sum_i mu_i x_i through the phases must lie below g at every sample and at
  *    every local minimum of g minus the plane found from the lowest samples (tolerance 1e-10 of
@@ -238,6 +238,9 @@ function jacobianRows(q: number, x: Float64Array, L: Float64Array, sign: number,
   }
 }
 
+/** The size of the terms of the tie-line determinant at the last residual evaluation. */
+let detScale = 1;
+
 /** Residuals of k phases (k = 2 with the tie-line condition on z, or k = 3), scaled by RT. */
 function residuals(iso: TernaryIsotherm, k: number, x: Float64Array, z: TernaryPoint, out: Float64Array): number {
   for (let q = 0; q < k; q++) iso.local(x[3 * q], x[3 * q + 1], x[3 * q + 2], loc.subarray(LOCAL_SIZE * q, LOCAL_SIZE * (q + 1)));
@@ -249,7 +252,15 @@ function residuals(iso: TernaryIsotherm, k: number, x: Float64Array, z: TernaryP
     out[r0 + 1] = (loc[GC] - loc[l + GC]) / RT;
     out[r0 + 2] = (loc[MUA] - loc[l + MUA]) / RT;
   }
-  if (k === 2) out[3] = (x[4] - x[1]) * (z.xC - x[2]) - (x[5] - x[2]) * (z.xB - x[1]);
+  if (k === 2) {
+    // the feed on the tie-line: det[x'; x''; z] = x' . (x'' x z) = 0, from all three fractions (no
+    // 1 - others: a tie-line along an edge keeps the dilute component's balance), relative to the
+    // size of its terms
+    const cA = x[4] * z.xC - x[5] * z.xB, cB = x[5] * z.xA - x[3] * z.xC, cC = x[3] * z.xB - x[4] * z.xA;
+    const tA = x[0] * cA, tB = x[1] * cB, tC = x[2] * cC;
+    detScale = Math.abs(tA) + Math.abs(tB) + Math.abs(tC) || 1;
+    out[3] = (tA + tB + tC) / detScale;
+  }
   const n = 2 * k;
   for (let i = 0; i < n; i++) norm = Math.max(norm, Math.abs(out[i]));
   return norm;
@@ -273,14 +284,18 @@ function newton(iso: TernaryIsotherm, start: TernaryPoint[], z: TernaryPoint): T
       jacobianRows(q, xs, loc, -1 / iso.RT, 3 * (q - 1), n);
     }
     if (k === 2) {
-      const b1 = xs[1], c1 = xs[2], b2 = xs[4], c2 = xs[5];
-      // d r4 / d x' = (x''_C - z_C, z_B - x''_B), d r4 / d x'' = (z_C - x'_C, -(z_B - x'_B)), through dx/du
-      const grads = [[c2 - z.xC, z.xB - b2], [z.xC - c1, -(z.xB - b1)]];
+      // d det / d x' = x'' x z, d det / d x'' = z x x' (the scale held fixed), through
+      // dx/du_B = (-x_A x_B, x_B (x_A + x_C), -x_B x_C), dx/du_C = (-x_A x_C, -x_B x_C, x_C (x_A + x_B))
+      const [a1, b1, c1, a2, b2, c2] = xs;
+      const grads = [
+        [b2 * z.xC - c2 * z.xB, c2 * z.xA - a2 * z.xC, a2 * z.xB - b2 * z.xA],
+        [z.xB * c1 - z.xC * b1, z.xC * a1 - z.xA * c1, z.xA * b1 - z.xB * a1],
+      ];
       for (let q = 0; q < 2; q++) {
         const a = xs[3 * q], b = xs[3 * q + 1], c = xs[3 * q + 2];
-        const [pB, pC] = grads[q];
-        J[3 * n + 2 * q] = pB * b * (a + c) + pC * (-b * c);
-        J[3 * n + 2 * q + 1] = pB * (-b * c) + pC * c * (a + b);
+        const [pA, pB, pC] = grads[q];
+        J[3 * n + 2 * q] = (-pA * a * b + pB * b * (a + c) - pC * b * c) / detScale;
+        J[3 * n + 2 * q + 1] = (-pA * a * c - pB * b * c + pC * c * (a + b)) / detScale;
       }
     }
     for (let i = 0; i < n; i++) step[i] = -r6[i];

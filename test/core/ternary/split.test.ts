@@ -175,6 +175,18 @@ describe('phase split of a ternary feed', () => {
       }
     });
 
+    it(`${name}: 15 random feeds with one component at 1e-2 ... 1e-12 (seed 7) give verified splits`, () => {
+      let seed = 7;
+      // Park & Miller minimal standard generator (Comm. ACM 31 (1988) 1192)
+      const rnd = () => (seed = (seed * 16807) % 2147483647) / 2147483647;
+      for (let k = 0; k < 15; k++) {
+        const d = 10 ** (-2 - 10 * rnd()), w = rnd(), i = k % 3;
+        const z: [number, number, number] = [0, 0, 0];
+        z[i] = d; z[(i + 1) % 3] = (1 - d) * w; z[(i + 2) % 3] = (1 - d) * (1 - w);
+        expectValidSplit(name, model, g, z, splitFeed(model, T, ...z));
+      }
+    });
+
     it(`${name}: a feed 1e-12 off each edge splits like the binary gap of that pair`, () => {
       for (const pair of ['AB', 'AC', 'BC'] as const) {
         const gap = gapAt(edges[pair], T);

@@ -472,7 +472,9 @@ const FRACTION_SLACK = 1e-9;
 export function splitFeed(model: TernaryModel, T: number, xA: number, xB: number, xC: number): TernarySplit {
   checkTemperature(T);
   checkComposition(xA, xB, xC, 'the feed');
-  const iso = model.at(T), z: TernaryPoint = { xA, xB, xC };
+  // fractions that sum to 1 within 1e-9 are scaled to sum to 1 (each keeps its relative precision)
+  const sum = xA + xB + xC;
+  const iso = model.at(T), z: TernaryPoint = sum === 1 ? { xA, xB, xC } : { xA: xA / sum, xB: xB / sum, xC: xC / sum };
   const s = samplesAt(model, iso);
   addSample(s, iso, z);
   const one = new Float64Array(LOCAL_SIZE);

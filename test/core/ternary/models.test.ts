@@ -222,6 +222,19 @@ describe('each edge is the binary model of its pair', () => {
   });
 });
 
+describe('the ternary term', () => {
+  it('M_A = M_B = M_C = M adds M x_A x_B x_C (the spec: "a single constant ternary term")', () => {
+    // x_A x_B x_C (x_A M + x_B M + x_C M) = M x_A x_B x_C since x_A + x_B + x_C = 1
+    const M = { a: 4200, b: -2, c: 0.3 }, T = 350, Mv = M.a + M.b * T + M.c * T * Math.log(T);
+    const without = ternaryRedlichKister({ ...RK, ternary: undefined }).at(T);
+    const withM = ternaryRedlichKister({ ...RK, ternary: { A: M, B: M, C: M } }).at(T);
+    for (const [a, b, c] of [[0.25, 0.25, 0.5], [0.125, 0.75, 0.125]]) {
+      // a few ulp of g's terms (~1e4 J/mol)
+      expect(Math.abs(withM.g(a, b, c) - without.g(a, b, c) - Mv * a * b * c)).toBeLessThan(1e-10);
+    }
+  });
+});
+
 describe('dilute compositions keep their digits', () => {
   it('a polymer-lean phase at phi_B = 1e-40: mu_B = RT(ln phi_B / N_B ...) per site, N_B mu_B per molecule', () => {
     // The spec's mu_i = g + sum_j (delta_ij - x_j) dg/dx_j worked out by hand for g/RT = sum (phi_i/N_i) ln phi_i

@@ -232,6 +232,15 @@ describe('phase split of a ternary feed', () => {
     expectValidSplit('miscible', model, (a, b, c) => rk3G(p, T, a, b, c), z, r);
   });
 
+  it('fractions that sum to 1 within 1e-9 are taken scaled to sum to 1', () => {
+    // the ternary spec: three fractions must sum to 1 within 1e-9
+    const { model } = SYSTEMS[0];
+    const r = splitFeed(model, T, 0.5, 0.3, 0.2 + 5e-10), s = 1 + 5e-10;
+    const sumB = r.phases.reduce((t, p, k) => t + r.fractions[k] * p.xB, 0);
+    // mass balance against the scaled feed (1e-12 as in expectValidSplit), not the raw one
+    expect(Math.abs(sumB - 0.3 / s)).toBeLessThan(1e-12);
+  });
+
   it('refuses a feed on an edge, fractions that do not sum to 1, and T <= 0', () => {
     const model = SYSTEMS[0].model;
     expect(failureReason(() => splitFeed(model, T, 0.5, 0.5, 0))).toBe('range');

@@ -212,6 +212,7 @@ const point = (x: Float64Array, o: number): TernaryPoint => ({ xA: x[o], xB: x[o
 
 const MAX_NEWTON = 80;
 const loc = new Float64Array(3 * LOCAL_SIZE);
+const locOf = [0, 1, 2].map((q) => loc.subarray(LOCAL_SIZE * q, LOCAL_SIZE * (q + 1)));
 const J = new Float64Array(36), r6 = new Float64Array(6), step = new Float64Array(6);
 const xs = new Float64Array(9), uTry = new Float64Array(6), xTry = new Float64Array(9);
 
@@ -226,16 +227,14 @@ function jacobianRows(q: number, x: Float64Array, L: Float64Array, sign: number,
   const a = x[o], b = x[o + 1], c = x[o + 2];
   const hBB = L[l + HBB], hBC = L[l + HBC], hCC = L[l + HCC];
   const dBB = b * (a + c), dBC = -b * c, dCC = c * (a + b);
-  const rows = [
-    [hBB, hBC],
-    [hBC, hCC],
-    [-(b * hBB + c * hBC), -(b * hBC + c * hCC)],
-  ];
-  for (let i = 0; i < 3; i++) {
-    const [p, s] = rows[i];
-    J[(r0 + i) * n + 2 * q] += sign * (p * dBB + s * dBC);
-    J[(r0 + i) * n + 2 * q + 1] += sign * (p * dBC + s * dCC);
-  }
+  // rows (d/dx_B, d/dx_C) of gB, gC and mu_A
+  const mB = -(b * hBB + c * hBC), mC = -(b * hBC + c * hCC);
+  J[r0 * n + 2 * q] += sign * (hBB * dBB + hBC * dBC);
+  J[r0 * n + 2 * q + 1] += sign * (hBB * dBC + hBC * dCC);
+  J[(r0 + 1) * n + 2 * q] += sign * (hBC * dBB + hCC * dBC);
+  J[(r0 + 1) * n + 2 * q + 1] += sign * (hBC * dBC + hCC * dCC);
+  J[(r0 + 2) * n + 2 * q] += sign * (mB * dBB + mC * dBC);
+  J[(r0 + 2) * n + 2 * q + 1] += sign * (mB * dBC + mC * dCC);
 }
 
 /** The size of the terms of the tie-line determinant at the last residual evaluation. */
@@ -243,7 +242,7 @@ let detScale = 1;
 
 /** Residuals of k phases (k = 2 with the tie-line condition on z, or k = 3), scaled by RT. */
 function residuals(iso: TernaryIsotherm, k: number, x: Float64Array, z: TernaryPoint, out: Float64Array): number {
-  for (let q = 0; q < k; q++) iso.local(x[3 * q], x[3 * q + 1], x[3 * q + 2], loc.subarray(LOCAL_SIZE * q, LOCAL_SIZE * (q + 1)));
+  for (let q = 0; q < k; q++) iso.local(x[3 * q], x[3 * q + 1], x[3 * q + 2], locOf[q]);
   const RT = iso.RT;
   let norm = 0;
   for (let q = 1; q < k; q++) {
@@ -286,7 +285,7 @@ function newton(iso: TernaryIsotherm, start: TernaryPoint[], z: TernaryPoint): T
     if (k === 2) {
       // d det / d x' = x'' x z, d det / d x'' = z x x' (the scale held fixed), through
       // dx/du_B = (-x_A x_B, x_B (x_A + x_C), -x_B x_C), dx/du_C = (-x_A x_C, -x_B x_C, x_C (x_A + x_B))
-      const [a1, b1, c1, a2, b2, c2] = xs;
+      const a1 = xs[0], b1 = xs[1], c1 = xs[2], a2 = xs[3], b2 = xs[4], c2 = xs[5];
       const grads = [
         [b2 * z.xC - c2 * z.xB, c2 * z.xA - a2 * z.xC, a2 * z.xB - b2 * z.xA],
         [z.xB * c1 - z.xC * b1, z.xC * a1 - z.xA * c1, z.xA * b1 - z.xB * a1],

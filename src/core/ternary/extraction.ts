@@ -81,3 +81,51 @@ export function crossCurrent(model: TernaryModel, T: number, feed: Stream, solve
   }
   return out;
 }
+
+export interface CounterCurrentResult {
+  /** Stage n (1-based order): mixes the raffinate of stage n - 1 (the feed at n = 1) with the extract of stage n + 1 (the solvent at n = N). */
+  stages: StageResult[];
+  /** The extract leaving stage 1 and the raffinate leaving stage N. */
+  extract: Stream;
+  raffinate: Stream;
+}
+
+const MAX_SWEEPS = 500;
+
+/**
+ * Counter-current extraction with N equilibrium stages: feed enters stage 1, solvent stage N;
+ * raffinates flow 1 -> N, extracts N -> 1. Solved by successive substitution: every stage starts
+ * with the fresh solvent as the extract arriving from its right, sweeps run from stage 1 to N with
+ * the newest raffinates and the last sweep's extracts, until no amount or fraction changes by more
+ * than 1e-12 of itself (else 'convergence').
+ */
+export function counterCurrent(model: TernaryModel, T: number, feed: Stream, solvent: Stream, N: number): CounterCurrentResult {
+  if (!(Number.isInteger(N) && N >= 1 && N <= 100)) fail('range', `the number of stages must be a whole number from 1 to 100 (got ${N})`);
+  checkStream(feed, 'feed');
+  checkStream(solvent, 'solvent');
+  // extractIn[n] = the extract entering stage n (from stage n + 1); the last is the solvent
+  const extractIn: Stream[] = Array.from({ length: N }, () => solvent);
+  let stages: StageResult[] = [];
+  for (let sweep = 0; sweep < MAX_SWEEPS; sweep++) {
+    const next: StageResult[] = [];
+    let current = feed;
+    for (let n = 0; n < N; n++) {
+      const st = extractionStage(model, T, current, extractIn[n]);
+      next.push(st);
+      current = st.raffinate;
+    }
+    let change = 0;
+    if (stages.length === N) {
+      for (let n = 0; n < N; n++) {
+        for (const [a, b] of [[next[n].extract, stages[n].extract], [next[n].raffinate, stages[n].raffinate]] as const) {
+          change = Math.max(change, Math.abs(a.amount - b.amount) / b.amount);
+          for (const key of ['xA', 'xB', 'xC'] as const) change = Math.max(change, Math.abs(a.x[key] - b.x[key]) / b.x[key]);
+        }
+      }
+    }
+    stages = next;
+    for (let n = 0; n < N - 1; n++) extractIn[n] = stages[n + 1].extract;
+    if (sweep > 0 && change <= 1e-12) return { stages, extract: stages[0].extract, raffinate: stages[N - 1].raffinate };
+  }
+  fail('convergence', `counter-current extraction with ${N} stages at T = ${T} K did not settle in ${MAX_SWEEPS} sweeps`);
+}

@@ -124,15 +124,6 @@ export class ResidualEvaluator {
     this.tracks = this.data.map(() => ({}));
   }
 
-  /** The tracks as they are, to restore after trial evaluations that should not move them. */
-  save(): Track[] {
-    return this.tracks.map((t) => ({ ...t }));
-  }
-
-  restore(saved: Track[]): void {
-    this.tracks = saved.map((t) => ({ ...t }));
-  }
-
   /** Unweighted residuals, one per row; throws MixgapError when the model has no such feature. */
   residuals(model: BinaryModel): number[] {
     const out: number[] = [];

@@ -19,6 +19,7 @@ import { fail, MixgapError } from '../errors';
 import type { BinaryModel } from '../model';
 import { fdStep } from './levenbergMarquardt';
 import { modelAt, type NonlinearFit } from './nonlinear';
+import { parameterUnit } from './parameters';
 
 export interface Uncertainty {
   /** r at the fitted parameters. */
@@ -32,7 +33,12 @@ export interface Uncertainty {
 /** Largest allowed departure of r(theta +- delta) from r0 +- k u, as a fraction of k u. */
 export const MAX_NONLINEARITY = 0.1;
 
-type Fit = Pick<NonlinearFit, 'family' | 'values' | 'free' | 'units' | 'covariance'>;
+/**
+ * What propagation needs of a fit: the family, every parameter's value, the free ones with their
+ * covariance, and their scales (./parameters.ts parameterUnit; when absent, taken at 1000 K: they
+ * only bound the finite-difference steps from below, 1e-4 max(|theta|, unit)).
+ */
+export type Fit = Pick<NonlinearFit, 'family' | 'values' | 'free' | 'covariance'> & { units?: readonly number[] };
 
 /**
  * u(r) for r(model) at the fitted parameters; `k` (default 2) is the band, in standard deviations,
@@ -43,6 +49,8 @@ export function propagate(fit: Fit, result: (model: BinaryModel) => number, what
   if (!C) fail('none', `the fit has no covariance (as many measured quantities as free parameters, so nothing to estimate the scatter from): state absolute uncertainties or add measurements`);
   if (!(k > 0)) fail('input', `the band must be a positive number of standard deviations (got ${k})`);
   const theta = fit.free.map((name) => fit.values[name]);
+  const units = fit.units ?? fit.free.map((name) => parameterUnit(name, 1000));
+  if (C.length !== theta.length || C.some((row) => row.length !== theta.length)) fail('input', `the covariance must be ${theta.length} x ${theta.length}, one row and column per free parameter (${fit.free.join(', ')})`);
   const value = result(modelAt(fit, theta));
   const at = (t: readonly number[]): number | MixgapError => {
     try {
@@ -53,7 +61,7 @@ export function propagate(fit: Fit, result: (model: BinaryModel) => number, what
     }
   };
   const gradient = theta.map((_, j) => {
-    const h = fdStep(theta, fit.units, j);
+    const h = fdStep(theta, units, j);
     const plus = at(theta.map((v, i) => (i === j ? v + h : v)));
     const minus = at(theta.map((v, i) => (i === j ? v - h : v)));
     if (typeof plus !== 'number' || typeof minus !== 'number') {

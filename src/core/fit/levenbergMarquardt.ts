@@ -25,7 +25,9 @@ import { create, eigsDependencies, invDependencies, lusolveDependencies } from '
 import { fail, MixgapError } from '../errors';
 import { MAX_CONDITION } from './leastSquares';
 
-const math = create({ eigsDependencies, invDependencies, lusolveDependencies });
+// absTol 0: mathjs's default (1e-15) takes any number below it for zero, a right-hand side too,
+// and the normal equations of parameters in J/mol or of a nearly perfect fit are that small.
+const math = create({ eigsDependencies, invDependencies, lusolveDependencies }, { absTol: 0 });
 
 export interface LeastSquaresProblem {
   /** Parameter names, for messages. */
@@ -111,10 +113,14 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: readonl
     const D = A.map((row, j) => Math.max(row[j], 1e-300));
     let accepted = false;
     let delta: number[] = [];
+    // Solved with unit diagonal scaling, d_j = sqrt(D_j): (A/dd + lambda I) z = -g/d, delta = z/d.
+    const d = D.map(Math.sqrt);
+    const As = A.map((row, j) => row.map((v, k) => v / (d[j] * d[k])));
+    const gs = g.map((v, j) => -v / d[j]);
     while (lambda <= 1e16) {
-      const M = A.map((row, j) => row.map((v, k) => (j === k ? v + lambda * D[j] : v)));
+      const M = As.map((row, j) => row.map((v, k) => (j === k ? v + lambda : v)));
       try {
-        delta = (math.lusolve(M, g.map((v) => -v)) as number[][]).map((row) => row[0]);
+        delta = (math.lusolve(M, gs) as number[][]).map((row, j) => row[0] / d[j]);
       } catch {
         lambda *= 4;
         continue;

@@ -141,3 +141,43 @@ describe('data that cannot determine the parameters: a named failure, never a nu
     expect(reason(() => fitModel(floryHugginsFamily, [{ name: 'NA', free: false }, { name: 'chi.B', free: true }], data))).toMatch(/^input: parameter NA is fixed but has no value/);
   });
 });
+
+describe('weights: each row divided by its stated uncertainty', () => {
+  // Weighted least squares (e.g. Bard, Nonlinear Parameter Estimation (1974), ch. 7): scaling every
+  // sigma by c leaves the estimate and the relative-weight covariance s^2 (J^T J)^-1 unchanged and
+  // multiplies the absolute covariance (J^T J)^-1 by c^2; the relative one is the absolute one
+  // times S/(n - p). Noisy data (a fixed sequence of offsets) so that S > 0.
+  const truth = { L0: 22000, 'L0.b': -4 };
+  const offsets = [0.003, -0.002, 0.001, -0.004, 0.002, 0.0015, -0.001, 0.0025];
+  const noisy = (sigma: number): Measurement[] => boundaries(redlichKisterFamily, truth, [[700, 'low'], [700, 'high'], [800, 'low'], [800, 'high'], [900, 'low'], [900, 'high'], [950, 'low'], [950, 'high']])
+    .map((m, i) => ({ ...(m as Extract<Measurement, { kind: 'boundary' }>), x: (m as Extract<Measurement, { kind: 'boundary' }>).x + offsets[i], sigma }));
+  const spec = specs(truth, ['L0', 'L0.b']);
+  it('scaling every sigma by 10', () => {
+    const a = fitModel(redlichKisterFamily, spec, noisy(0.002));
+    const b = fitModel(redlichKisterFamily, spec, noisy(0.02));
+    const abs = fitModel(redlichKisterFamily, spec, noisy(0.002), { absolute: true });
+    const abs10 = fitModel(redlichKisterFamily, spec, noisy(0.02), { absolute: true });
+    // the two fits stop at steps below 1e-10 of the parameters' scale: 1e-8 relative agreement
+    for (const name of ['L0', 'L0.b']) expect(Math.abs(a.values[name] - b.values[name]) / Math.abs(a.values[name])).toBeLessThan(1e-8);
+    for (let j = 0; j < 2; j++) {
+      for (let k = 0; k < 2; k++) {
+        const c = a.covariance![j][k];
+        // the covariances come from central-difference Jacobians good to ~1e-8: 1e-6 relative
+        expect(Math.abs(b.covariance![j][k] / c - 1)).toBeLessThan(1e-6);
+        expect(Math.abs(abs10.covariance![j][k] / abs.covariance![j][k] - 100)).toBeLessThan(1e-4);
+        expect(Math.abs((abs.covariance![j][k] * a.S) / a.dof / c - 1)).toBeLessThan(1e-6);
+      }
+    }
+  });
+  it('one row with a large uncertainty hardly moves the fit', () => {
+    const data = noisy(0.002);
+    const exact = boundaries(redlichKisterFamily, truth, [[850, 'low']])[0] as Extract<Measurement, { kind: 'boundary' }>;
+    const outlier = { ...exact, x: exact.x + 0.05 };
+    const trusted = fitModel(redlichKisterFamily, spec, [...data, { ...outlier, sigma: 0.002 }]);
+    const doubted = fitModel(redlichKisterFamily, spec, [...data, { ...outlier, sigma: 1 }]);
+    const base = fitModel(redlichKisterFamily, spec, data);
+    // weight 1/500 of the others in the residual: the outlier's pull on L0 shrinks by ~500^2
+    const pull = (f: typeof base) => Math.abs(f.values.L0 - base.values.L0);
+    expect(pull(doubted)).toBeLessThan(1e-3 * pull(trusted));
+  });
+});

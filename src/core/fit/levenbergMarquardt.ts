@@ -53,7 +53,7 @@ export interface LeastSquaresSolution {
 
 /** Relative finite-difference steps (see above): central at the solution, forward in the iterations. */
 export const FD_STEP = 1e-4;
-const FORWARD_STEP = 1e-6;
+export const FORWARD_STEP = 1e-6;
 const MAX_ITERATIONS = 200;
 
 /** The central-difference step of parameter j at theta. */

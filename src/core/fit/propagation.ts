@@ -2,11 +2,14 @@
  * Standard uncertainty of any result computed from fitted parameters, by linear propagation
  * (GUM, JCGM 100:2008, eq. 13):
  *   u(r)^2 = g^T C g,   g_j = d r / d theta_j,
- * with C the covariance of the free parameters (./nonlinear.ts) and g by central differences with
- * the fit's steps (./levenbergMarquardt.ts, fdStep: good to about 1e-8).
+ * with C the covariance of the free parameters (./nonlinear.ts) and g by forward differences with
+ * step 1e-6 of each parameter's scale (./levenbergMarquardt.ts: truncation and the results' own
+ * rounding, ~1e-12, both give about 1e-6 relative, far below what an uncertainty needs), one
+ * evaluation per parameter.
  *
  * Linear propagation is only honest where r exists and is nearly linear over the parameters'
- * spread. Along the direction in which r changes fastest within the k-sigma ellipsoid of the
+ * spread. With the value itself and the two ends below, u(r) costs p + 3 evaluations of r.
+ * Along the direction in which r changes fastest within the k-sigma ellipsoid of the
  * parameters, delta = k C g / u(r) (where the linearised r reaches r0 +- k u(r)), r is evaluated at
  * theta +- delta:
  * - if it does not exist there (no gap, no critical point), the result fails ('none');
@@ -17,7 +20,7 @@
  */
 import { fail, MixgapError } from '../errors';
 import type { BinaryModel } from '../model';
-import { fdStep } from './levenbergMarquardt';
+import { fdStep, FORWARD_STEP } from './levenbergMarquardt';
 import { modelAt, type NonlinearFit } from './nonlinear';
 import { parameterUnit } from './parameters';
 
@@ -61,14 +64,12 @@ export function propagate(fit: Fit, result: (model: BinaryModel) => number, what
     }
   };
   const gradient = theta.map((_, j) => {
-    const h = fdStep(theta, units, j);
+    const h = fdStep(theta, units, j, FORWARD_STEP);
     const plus = at(theta.map((v, i) => (i === j ? v + h : v)));
+    if (typeof plus === 'number') return (plus - value) / h;
     const minus = at(theta.map((v, i) => (i === j ? v - h : v)));
-    if (typeof plus !== 'number' || typeof minus !== 'number') {
-      const e = (typeof plus !== 'number' ? plus : minus) as MixgapError;
-      return fail('range', `${what} has no derivative with respect to ${fit.free[j]}: it stops existing when ${fit.free[j]} moves by ${h.toPrecision(3)} (${e.message})`);
-    }
-    return (plus - minus) / (2 * h);
+    if (typeof minus === 'number') return (value - minus) / h;
+    return fail('range', `${what} has no derivative with respect to ${fit.free[j]}: it stops existing when ${fit.free[j]} moves by ${h.toPrecision(3)} either way (${minus.message})`);
   });
   const Cg = C.map((row) => row.reduce((s, c, i) => s + c * gradient[i], 0));
   const variance = gradient.reduce((s, g, j) => s + g * Cg[j], 0);

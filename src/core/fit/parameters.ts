@@ -25,6 +25,19 @@ export interface ParameterSpec {
   free: boolean;
 }
 
+/**
+ * The parameters a fit of `family` can name: its card keys, and for an open-ended list (Redlich–
+ * Kister: L1, L2, ...) those of `terms` terms (L_k, L_k.b, L_k.c each).
+ */
+export function parameterNames(family: ModelFamily, terms = 1): string[] {
+  if (!family.moreKeys) return [...family.keys];
+  const names: string[] = [];
+  for (let k = 0; k < terms; k++) {
+    for (const raw of [`L${k}`, `L${k}.b`, `L${k}.c`]) if (owns(family, raw)) names.push(raw);
+  }
+  return names.length > 0 ? names : [...family.keys];
+}
+
 /** Change of the parameter `name` that changes g/RT by about 1, at temperatures near Tref. */
 export function parameterUnit(name: string, Tref: number): number {
   if (name === 'omega' || /^L\d+$/.test(name)) return R * Tref;

@@ -147,3 +147,25 @@ describe('no uncertainty where the result does not exist or is far from linear w
     expect(propagate(fit, lowAt(850), 'x\'').sigma).toBeGreaterThan(0);
   });
 });
+
+describe('no residual to estimate the scatter from', () => {
+  // One critical point (Tc, xc) determines L0 and L1 exactly: with relative weights there is no
+  // covariance (s^2 = S/0); with absolute uncertainties there is, (J^T J)^-1.
+  const c = criticalPoints(buildModel(redlichKisterFamily, { L0: 20000, L1: 2500 }))[0];
+  const data: Measurement[] = [{ kind: 'critical point', Tc: c.T, xc: c.x, sigmaT: 1, sigmaX: 0.005 }];
+  const free = [{ name: 'L0', free: true }, { name: 'L1', free: true }];
+  it('relative weights: propagation says why it cannot', () => {
+    const fit = fitModel(redlichKisterFamily, free, data);
+    expect(fit.dof).toBe(0);
+    expect(fit.covariance).toBeUndefined();
+    expect(() => propagate(fit, lowAt(c.T - 100), 'x\'')).toThrow(/^the fit has no covariance/);
+  });
+  it('absolute uncertainties: Tc comes back with the stated 1 K', () => {
+    const fit = fitModel(redlichKisterFamily, free, data, { absolute: true });
+    // Tc is one of the two measured quantities and the fit is exact, so its propagated uncertainty
+    // is its stated one (linear algebra: J invertible, g^T (J^T J)^-1 g = sigma_T^2 for g = row of J);
+    // the critical search's Brent tolerance and the 1e-6 gradient leave it good to ~1e-5
+    const tc = propagate(fit, (m) => criticalPoints(m)[0].T, 'Tc');
+    expect(Math.abs(tc.sigma - 1)).toBeLessThan(1e-4);
+  });
+});

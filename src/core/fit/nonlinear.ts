@@ -7,8 +7,8 @@
  * Starting values: those given; for Redlich–Kister (and regular) models whose free parameters are
  * constant parts and slopes (L_k, L_k.b) with the other parameters zero, the linear tie-line fit
  * (./tieLines.ts) when there are tie-lines; otherwise the defaults of ./parameters.ts refined by a
- * short grid, one parameter at a time (each over its value + unit x {-2, -1, -1/2, 0, 1/2, 1, 2},
- * twice round), so that a user need not guess.
+ * short grid, one parameter at a time (each over its value + unit x {-2, -1, -1/2, 1/2, 1, 2} and
+ * 0, twice round, keeping the lowest sum of squares), so that a user need not guess.
  *
  * Covariance of the free parameters at the optimum (linearised, e.g. Bard, Nonlinear Parameter
  * Estimation (1974), ch. 7):

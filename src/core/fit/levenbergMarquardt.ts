@@ -1,0 +1,221 @@
+/**
+ * Levenberg–Marquardt for min S(theta) = sum_i r_i(theta)^2 over a few parameters, written once for
+ * every fit (Marquardt, J. SIAM 11 (1963) 431; scaling by diag(J^T J) as in Moré, Lecture Notes
+ * in Mathematics 630 (1978) 105). Each step solves
+ *   (J^T J + lambda diag(J^T J)) delta = -J^T r,
+ * accepts it when S decreases (lambda / 3) and otherwise retries with lambda * 4. A residual that
+ * cannot be evaluated (the model lost its gap at a measured temperature) counts as S = infinity:
+ * the step is refused and shortened.
+ *
+ * The Jacobian is by finite differences with a step per parameter, h_j = c max(|theta_j|, unit_j),
+ * unit_j being the parameter's change that moves g/RT by about 1 (./parameters.ts). The residuals
+ * come out of root solvers good to a relative 1e-13 or better (noise eps ~ 1e-12 in the worst
+ * case). At the solution (covariance, identifiability) central differences with c = eps^(1/3) ~
+ * 1e-4 balance truncation (~h^2 ~ 1e-8) against noise (eps/h ~ 1e-8): J good to about 1e-8.
+ * During the iterations forward differences with c = eps^(1/2) ~ 1e-6 (truncation ~h and noise
+ * eps/h both ~1e-6) cost half as many evaluations and still give steps good to 1e-6, far below
+ * what the iteration needs (Press et al., Numerical Recipes, 3rd ed. (2007), sec. 5.7).
+ *
+ * At the solution the columns of J are scaled to unit length and the condition number of the
+ * scaled J (sqrt of the eigenvalue ratio of its normal matrix, mathjs eigs) decides whether the data
+ * determine the parameters; the eigenvector of the smallest eigenvalue names those that they cannot
+ * tell apart.
+ */
+import { create, eigsDependencies, invDependencies, lusolveDependencies } from 'mathjs';
+import { fail, MixgapError } from '../errors';
+import { MAX_CONDITION } from './leastSquares';
+
+// absTol 0: mathjs's default (1e-15) takes any number below it for zero, a right-hand side too,
+// and the normal equations of parameters in J/mol or of a nearly perfect fit are that small.
+const math = create({ eigsDependencies, invDependencies, lusolveDependencies }, { absTol: 0 });
+
+export interface LeastSquaresProblem {
+  /** Parameter names, for messages. */
+  names: readonly string[];
+  /** Scale of each parameter (./parameters.ts parameterUnit). */
+  units: readonly number[];
+  /** Weighted residuals at theta; throws MixgapError where they do not exist. */
+  residuals(theta: readonly number[]): number[];
+}
+
+export interface LeastSquaresSolution {
+  theta: number[];
+  /** Weighted residuals at theta. */
+  r: number[];
+  /** Jacobian of the weighted residuals at theta (n x p). */
+  J: number[][];
+  /** S = sum r^2. */
+  S: number;
+  iterations: number;
+  /** Condition number of the column-scaled Jacobian. */
+  condition: number;
+}
+
+/** Relative finite-difference steps (see above): central at the solution, forward in the iterations. */
+export const FD_STEP = 1e-4;
+export const FORWARD_STEP = 1e-6;
+const MAX_ITERATIONS = 200;
+
+/** The central-difference step of parameter j at theta. */
+export function fdStep(theta: readonly number[], units: readonly number[], j: number, relative = FD_STEP): number {
+  return relative * Math.max(Math.abs(theta[j]), units[j]);
+}
+
+/** S, or Infinity where the residuals cannot be evaluated. */
+function costOf(problem: LeastSquaresProblem, theta: readonly number[]): { S: number; r?: number[] } {
+  try {
+    const r = problem.residuals(theta);
+    const S = r.reduce((s, v) => s + v * v, 0);
+    return Number.isFinite(S) ? { S, r } : { S: Infinity };
+  } catch (e) {
+    if (e instanceof MixgapError) return { S: Infinity };
+    throw e;
+  }
+}
+
+/**
+ * d r / d theta_j by central (or forward) differences, one-sided where one neighbour cannot be
+ * evaluated.
+ * Fails ('convergence') naming the parameter when neither neighbour can.
+ */
+export function jacobian(problem: LeastSquaresProblem, theta: readonly number[], r0: readonly number[], central = true): number[][] {
+  const n = r0.length, p = theta.length;
+  const J = Array.from({ length: n }, () => new Array<number>(p).fill(0));
+  for (let j = 0; j < p; j++) {
+    const h = fdStep(theta, problem.units, j, central ? FD_STEP : FORWARD_STEP);
+    const at = (t: number) => costOf(problem, theta.map((v, k) => (k === j ? v + t : v))).r;
+    const plus = at(h), minus = central || !plus ? at(-h) : undefined;
+    let col: (i: number) => number;
+    if (plus && minus) col = (i) => (plus[i] - minus[i]) / (2 * h);
+    else if (plus) col = (i) => (plus[i] - r0[i]) / h;
+    else if (minus) col = (i) => (r0[i] - minus[i]) / h;
+    else {
+      return fail('convergence', `the residuals cannot be computed when ${problem.names[j]} moves by ${h.toPrecision(3)} either way from ${theta[j].toPrecision(8)}: the model loses a measured gap or critical point there; give other starting values or fewer free parameters`);
+    }
+    for (let i = 0; i < n; i++) J[i][j] = col(i);
+  }
+  return J;
+}
+
+/** Minimises S from theta0; fails with a named reason when it cannot. */
+export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: readonly number[]): LeastSquaresSolution {
+  const p = theta0.length;
+  let theta = [...theta0];
+  const start = costOf(problem, theta);
+  if (!start.r) fail('none', 'the starting parameters give no model with the measured gaps, cloud points or critical points: give starting values for the free parameters');
+  let r = start.r, S = start.S;
+  const n = r.length;
+  if (n < p) fail('input', `${n} measured quantities cannot determine ${p} free parameters (${problem.names.join(', ')}): fix some parameters or add measurements`);
+  let lambda = 1e-3;
+  let J = jacobian(problem, theta, r, false);
+  for (let iter = 1; iter <= MAX_ITERATIONS; iter++) {
+    const { A, g } = normal(J, r);
+    const D = A.map((row, j) => Math.max(row[j], 1e-300));
+    let accepted = false;
+    let delta: number[] = [];
+    // Solved with unit diagonal scaling, d_j = sqrt(D_j): (A/dd + lambda I) z = -g/d, delta = z/d.
+    const d = D.map(Math.sqrt);
+    const As = A.map((row, j) => row.map((v, k) => v / (d[j] * d[k])));
+    const gs = g.map((v, j) => -v / d[j]);
+    while (lambda <= 1e16) {
+      const M = As.map((row, j) => row.map((v, k) => (j === k ? v + lambda : v)));
+      try {
+        delta = (math.lusolve(M, gs) as number[][]).map((row, j) => row[0] / d[j]);
+      } catch {
+        lambda *= 4;
+        continue;
+      }
+      const trial = theta.map((v, j) => v + delta[j]);
+      const next = costOf(problem, trial);
+      if (next.r && next.S < S) {
+        const small = delta.every((d, j) => Math.abs(d) <= 1e-10 * Math.max(Math.abs(trial[j]), problem.units[j]));
+        const flat = S - next.S <= 1e-14 * S;
+        theta = trial; r = next.r; S = next.S;
+        lambda = Math.max(lambda / 3, 1e-12);
+        accepted = true;
+        if (small || flat || S === 0) return finish(problem, theta, r, S, iter);
+        break;
+      }
+      // no decrease: converged if even the Gauss–Newton prediction is below rounding of S
+      const predicted = -g.reduce((s, v, j) => s + v * delta[j], 0);
+      if (predicted <= 1e-14 * S + 1e-300) return finish(problem, theta, r, S, iter);
+      lambda *= 4;
+    }
+    if (!accepted) {
+      const worst = worstGradient(problem.names, g, D);
+      fail('convergence', `the fit stalled after ${iter} iterations: no step lowers the sum of squares (${S.toPrecision(6)}) though its slope along ${worst} is not zero; give other starting values or fewer free parameters`);
+    }
+    J = jacobian(problem, theta, r, false);
+  }
+  const { g, A } = normal(J, r);
+  fail('convergence', `the fit did not converge in ${MAX_ITERATIONS} iterations (still moving along ${worstGradient(problem.names, g, A.map((row, j) => row[j]))}): give starting values closer to the data or fix that parameter`);
+}
+
+/** J^T J and J^T r. */
+function normal(J: number[][], r: readonly number[]): { A: number[][]; g: number[] } {
+  const p = J[0].length;
+  const A = Array.from({ length: p }, () => new Array<number>(p).fill(0));
+  const g = new Array<number>(p).fill(0);
+  J.forEach((row, i) => {
+    for (let j = 0; j < p; j++) {
+      g[j] += row[j] * r[i];
+      for (let k = 0; k <= j; k++) A[j][k] += row[j] * row[k];
+    }
+  });
+  for (let j = 0; j < p; j++) for (let k = 0; k < j; k++) A[k][j] = A[j][k];
+  return { A, g };
+}
+
+function worstGradient(names: readonly string[], g: readonly number[], D: readonly number[]): string {
+  let best = 0;
+  g.forEach((v, j) => { if (Math.abs(v) / Math.sqrt(D[j] || 1) > Math.abs(g[best]) / Math.sqrt(D[best] || 1)) best = j; });
+  return names[best];
+}
+
+/** The Jacobian at the solution and the identifiability check. */
+function finish(problem: LeastSquaresProblem, theta: number[], r: number[], S: number, iterations: number): LeastSquaresSolution {
+  const J = jacobian(problem, theta, r);
+  const condition = identifiable(problem.names, J);
+  return { theta, r, J, S, iterations, condition };
+}
+
+/**
+ * Condition number of J with unit columns; fails ('input') naming the parameter(s) the data do not
+ * determine: a column of zeros (no measurement depends on it), or the largest components of the
+ * eigenvector of the smallest eigenvalue when the condition number exceeds MAX_CONDITION.
+ */
+export function identifiable(names: readonly string[], J: number[][]): number {
+  const p = names.length;
+  const s = new Array<number>(p).fill(0);
+  for (const row of J) for (let j = 0; j < p; j++) s[j] += row[j] * row[j];
+  for (let j = 0; j < p; j++) {
+    s[j] = Math.sqrt(s[j]);
+    if (!(s[j] > 0)) fail('input', `parameter ${names[j]} is not determined: no measurement depends on it; fix it at a value or add measurements that do`);
+  }
+  const scaled = J.map((row) => row.map((v, j) => v / s[j]));
+  const { A } = normal(scaled, new Array<number>(J.length).fill(0));
+  if (p === 1) return 1;
+  const { values, eigenvectors } = math.eigs(A) as unknown as { values: number[]; eigenvectors: Array<{ value: number; vector: number[] }> };
+  const lambdas = values.map(Number);
+  const lmin = Math.min(...lambdas), lmax = Math.max(...lambdas);
+  const condition = lmin > 0 ? Math.sqrt(lmax / lmin) : Infinity;
+  if (!(condition <= MAX_CONDITION)) {
+    const v = eigenvectors.reduce((a, b) => (Number(b.value) < Number(a.value) ? b : a)).vector.map(Number);
+    const order = v.map((c, j) => ({ c: Math.abs(c), j })).sort((a, b) => b.c - a.c);
+    const involved = order.filter((o) => o.c >= 0.2).map((o) => names[o.j]);
+    const what = involved.length >= 2 ? `the data cannot tell ${involved.slice(0, -1).join(', ')} and ${involved[involved.length - 1]} apart` : `parameter ${names[order[0].j]} is not determined by the data`;
+    fail('input', `${what} (condition number ${condition === Infinity ? 'infinite' : condition.toExponential(1)}): fix one of them at a value, or add measurements at other temperatures or compositions`);
+  }
+  return condition;
+}
+
+/** (J^T J)^-1, computed with unit columns for accuracy. */
+export function inverseNormal(J: number[][]): number[][] {
+  const p = J[0].length;
+  const s = new Array<number>(p).fill(0);
+  for (const row of J) for (let j = 0; j < p; j++) s[j] += row[j] * row[j];
+  for (let j = 0; j < p; j++) s[j] = Math.sqrt(s[j]);
+  const { A } = normal(J.map((row) => row.map((v, j) => v / s[j])), new Array<number>(J.length).fill(0));
+  const inv = math.inv(A) as number[][];
+  return inv.map((row, j) => row.map((v, k) => v / (s[j] * s[k])));
+}

@@ -4,6 +4,7 @@
  */
 import { describe, expect, test } from 'vitest';
 import { a1, columnName, engineFormula, parseA1, parseRange, quoteSheet } from '../../src/hosts/workbook';
+import { slideFormula } from '../../src/hosts/a1';
 
 describe('engineFormula', () => {
   test('adds the leading "=" the file leaves out', () => {
@@ -41,5 +42,24 @@ describe('addresses', () => {
     expect(quoteSheet('Card')).toBe('Card');
     expect(quoteSheet('Calc Sheet')).toBe("'Calc Sheet'");
     expect(quoteSheet("Bob's")).toBe("'Bob''s'");
+  });
+});
+
+describe('slideFormula (a shared formula moved to another cell of its block)', () => {
+  // ECMA-376 Part 1 (2016) §18.3.1.40, f (Formula), shared formulas: relative references move with
+  // the cell, $-fixed parts stay (section number from memory).
+  test('relative parts move, fixed parts stay', () => {
+    expect(slideFormula('A1*2+$B$1+B$2+$C3', 2, 1)).toBe('B3*2+$B$1+C$2+$C5');
+    expect(slideFormula("SUM(Inputs!A1:B2)+'Calc Sheet'!C1", 1, 0)).toBe("SUM(Inputs!A2:B3)+'Calc Sheet'!C2");
+    expect(slideFormula('SUM(A:A)+SUM(1:2)', 1, 1)).toBe('SUM(B:B)+SUM(2:3)');
+  });
+
+  test('text, functions and names that look like addresses are left alone', () => {
+    expect(slideFormula('"A1"&A1&LOG10(A2)&\'B1 x\'!A1', 1, 1)).toBe('"A1"&B2&LOG10(B3)&\'B1 x\'!B2');
+    expect(slideFormula('MIXGAP.GAPLOW(A1,Card)+RATE2024+Sheet1!A1+1E5', 1, 0)).toBe('MIXGAP.GAPLOW(A2,Card)+RATE2024+Sheet1!A2+1E5');
+  });
+
+  test('a reference moved off the sheet becomes #REF!', () => {
+    expect(slideFormula('A1+B2', -1, 0)).toBe('#REF!+B1');
   });
 });

@@ -60,7 +60,7 @@ function reason(e: unknown): string {
     ENOTDIR: 'a part of the path is a file, not a folder',
     EEXIST: 'a file of that name is in the way',
     EISDIR: 'it is a folder',
-    ENOENT: 'no such folder',
+    ENOENT: 'no file can be created there',
   };
   return err.code && words[err.code] ? `${words[err.code]} (${err.code})` : err.message ?? String(e);
 }

@@ -148,7 +148,7 @@ export function parseSheet(name: string, partPath: string, xml: string): SheetPa
       break;
     }
   }
-  if (!sheetData) throw new NotAWorkbookError(`the sheet part ${partPath} has no cell data`);
+  if (!sheetData) throw new Error(`the sheet part ${partPath} has no cell data`);
   const shared = new Map<string, { text: string; row: number; col: number }>();
 
   if (!sheetData.selfClosing) {
@@ -232,19 +232,34 @@ export function parseSheet(name: string, partPath: string, xml: string): SheetPa
 
 /** Reads the package in `data`; `label` names it in messages. */
 export async function readPackage(data: Buffer | Uint8Array, label: string): Promise<WorkbookPackage> {
+  try {
+    return await readParts(data, label);
+  } catch (e) {
+    if (e instanceof NotAWorkbookError) throw e;
+    // A zip whose entries do not inflate, or parts that are not what their names say.
+    throw new NotAWorkbookError(`${label}: not an .xlsx workbook, or damaged (${(e as Error).message})`);
+  }
+}
+
+async function readParts(data: Buffer | Uint8Array, label: string): Promise<WorkbookPackage> {
+  const fail = (why: string) => new NotAWorkbookError(`${label}: not an .xlsx workbook, or damaged (${why})`);
+  // An OLE compound file: the older binary .xls format, or an .xlsx protected with a password.
+  const ole = data.length >= 8 && [0xd0, 0xcf, 0x11, 0xe0, 0xa1, 0xb1, 0x1a, 0xe1].every((b, i) => data[i] === b);
+  if (ole) throw fail('this is an .xls file of the older binary format, or a workbook protected with a password: save it as an .xlsx without a password first');
   let zip: JSZip;
   try {
     zip = await JSZip.loadAsync(data);
-  } catch (e) {
-    throw new NotAWorkbookError(`${label}: not an .xlsx workbook, or damaged (${(e as Error).message})`);
+  } catch {
+    throw fail('not a zip package: cut short, or a file of another kind');
   }
-  const fail = (why: string) => new NotAWorkbookError(`${label}: not an .xlsx workbook, or damaged (${why})`);
   const rootRels = await partText(zip, '_rels/.rels');
   if (rootRels === undefined) throw fail('no _rels/.rels part');
   const main = [...relationships(rootRels, '').values()].find((r) => r.type.endsWith('/officeDocument'));
   if (!main) throw fail('no workbook part');
   const workbookXml = await partText(zip, main.target);
   if (workbookXml === undefined) throw fail(`no ${main.target} part`);
+  const rootElement = tags(workbookXml).next().value;
+  if (!rootElement || rootElement.local !== 'workbook') throw fail(`its main part ${main.target} is not a workbook (a document of another kind?)`);
   const rels = relationships((await partText(zip, relsPath(main.target))) ?? '', path.posix.dirname(main.target));
 
   const types = (await partText(zip, '[Content_Types].xml')) ?? '';

@@ -216,8 +216,43 @@ describe('mixgap calc failures', () => {
     writeFileSync(file, 'this is not a zip file');
     const r = mixgap(['calc', file]);
     expect(r.status).toBe(1);
-    expect(r.stderr).toMatch(/^mixgap: /);
+    expect(r.stderr).toMatch(/^mixgap: .*broken\.xlsx: not an \.xlsx workbook, or damaged/);
     expect(readdirSync(d)).toEqual(['broken.xlsx']);
+  });
+
+  test('a damaged workbook (cut short) and a package of another kind say the same, and what they are', async () => {
+    const d = mkdtempSync(path.join(os.tmpdir(), 'mixgap-damaged-'));
+    const whole = readFileSync(input);
+    writeFileSync(path.join(d, 'cut.xlsx'), whole.subarray(0, Math.floor(whole.length / 2)));
+    const JSZip = (await import('jszip')).default;
+    const doc = new JSZip(); // the skeleton of a text document: a package, but not a workbook
+    doc.file('_rels/.rels', '<Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships"><Relationship Id="rId1" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/officeDocument" Target="word/document.xml"/></Relationships>');
+    doc.file('word/document.xml', '<w:document xmlns:w="http://schemas.openxmlformats.org/wordprocessingml/2006/main"><w:body/></w:document>');
+    writeFileSync(path.join(d, 'letter.xlsx'), await doc.generateAsync({ type: 'nodebuffer' }));
+    for (const name of ['cut.xlsx', 'letter.xlsx']) {
+      const r = mixgap(['calc', path.join(d, name)]);
+      expect(r.status, name).toBe(1);
+      expect(r.stderr, name).toMatch(new RegExp(`${name.replace('.', '\\.')}: not an \\.xlsx workbook, or damaged`));
+    }
+    expect(readdirSync(d).sort()).toEqual(['cut.xlsx', 'letter.xlsx']);
+  });
+
+  test('an output folder that cannot be written is named (not a temporary file)', () => {
+    const d = mkdtempSync(path.join(os.tmpdir(), 'mixgap-nowrite-'));
+    const blocker = path.join(d, 'results');
+    writeFileSync(blocker, 'a file where a folder should be');
+    const r = mixgap(['calc', input, '-o', path.join(blocker, 'run7', 'out.xlsx')]);
+    expect(r.status).toBe(1);
+    expect(r.stderr).toContain(`cannot write to ${path.join(blocker, 'run7')}`);
+    expect(r.stderr).not.toMatch(/\.tmp/);
+  });
+
+  test('an output format calc does not write is refused, naming the ones it does', () => {
+    const d = mkdtempSync(path.join(os.tmpdir(), 'mixgap-csv-'));
+    const r = mixgap(['calc', input, '-o', path.join(d, 'out.csv')]);
+    expect(r.status).toBe(1);
+    expect(r.stderr).toMatch(/out\.csv: mixgap calc writes \.xlsx \(\.xlsm for a workbook with macros\)/);
+    expect(readdirSync(d)).toEqual([]);
   });
 
   test('refuses to write over its input', () => {

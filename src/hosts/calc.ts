@@ -12,9 +12,8 @@ import { SingleBar, Presets } from 'cli-progress';
 import type { CustomFunctionsMetadata } from './engine';
 import { buildMixgapEngine } from './mixgap-engine';
 import { evaluateWorkbook, WORKBOOK_ENGINE_CONFIG } from './workbook';
-import type { CellErrorReport, WorkbookReport } from './workbook';
+import type { CellErrorReport, Evaluation, WorkbookReport } from './workbook';
 import { readPackage, writePackage } from './xlsx-package';
-import type { WorkbookEdits } from './xlsx-package';
 
 /** Name of the computed copy of `input`: report.xlsx -> report.computed.xlsx, book.xlsm -> book.computed.xlsm. */
 export function computedName(input: string, macroEnabled = /\.xlsm$/i.test(input)): string {
@@ -131,11 +130,9 @@ export async function calcWorkbook(input: string, metadata: CustomFunctionsMetad
   let bar: SingleBar | undefined;
   const stream = options.progressStream;
   const after = options.progressAfterMs ?? 1000;
-  const engine = buildMixgapEngine(metadata, WORKBOOK_ENGINE_CONFIG);
-  let report: WorkbookReport;
-  let edits: WorkbookEdits;
+  let evaluation: Evaluation | undefined;
   try {
-    ({ report, edits } = await evaluateWorkbook(book, engine, (done, total) => {
+    evaluation = await evaluateWorkbook(book, (content) => buildMixgapEngine(metadata, WORKBOOK_ENGINE_CONFIG, content), (done, total) => {
       if (!stream?.isTTY) return;
       if (!bar && Date.now() - started >= after && done < total) {
         bar = new SingleBar({
@@ -147,11 +144,12 @@ export async function calcWorkbook(input: string, metadata: CustomFunctionsMetad
         bar.start(total, done);
       }
       bar?.update(done);
-    }));
+    });
   } finally {
     bar?.stop();
-    engine.destroy();
+    evaluation?.engine.destroy();
   }
+  const { report, edits } = evaluation;
 
   const bytes = await writePackage(book, edits);
   await writeAtomically(output, async (tmp) => writeFileSync(tmp, bytes));

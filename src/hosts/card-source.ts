@@ -58,8 +58,7 @@ export async function cardFromXlsx(file: string, metadata: CustomFunctionsMetada
   const ws = wb.sheets.find((w) => w.name.toLowerCase() === String(sheetName).toLowerCase());
   if (!ws) throw new Error(`${file} has no sheet "${sheetName}" (sheets: ${wb.sheets.map((w) => w.name).join(', ')})`);
   sheetName = ws.name;
-  const engine = buildMixgapEngine(metadata, WORKBOOK_ENGINE_CONFIG);
-  await evaluateWorkbook(wb, engine);
+  const { engine } = await evaluateWorkbook(wb, (content) => buildMixgapEngine(metadata, WORKBOOK_ENGINE_CONFIG, content));
   const r = parseRange(cells);
   const sheetId = engine.getSheetId(sheetName)!;
   const grid: CardGrid = [];

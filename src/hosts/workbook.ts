@@ -9,9 +9,10 @@
  */
 import { readFileSync } from 'fs';
 import { DetailedCellError } from 'hyperformula';
-import type { ConfigParams, HyperFormula, RawCellContent, SimpleCellAddress } from 'hyperformula';
+import type { ConfigParams, HyperFormula, RawCellContent, SerializedNamedExpression, Sheets, SimpleCellAddress } from 'hyperformula';
 import { a1, a1Range, parseRange } from './a1';
 import { NAMESPACE } from './engine';
+import type { EngineContent } from './engine';
 import { fallbackMessages, lowerExponents } from './evaluate';
 import { readPackage } from './xlsx-package';
 import type { CellEdit, FileCell, FileValue, WorkbookEdits, WorkbookPackage } from './xlsx-package';
@@ -150,22 +151,26 @@ function spillExtent(engine: HyperFormula, anchor: SimpleCellAddress): { rows: n
   return { rows, cols };
 }
 
-const yieldToEventLoop = () => new Promise<void>((resolve) => setImmediate(resolve));
-
 /** Reads the workbook package at `file` (.xlsx or .xlsm). */
 export async function readWorkbook(file: string): Promise<WorkbookPackage> {
   return readPackage(readFileSync(file), file);
 }
 
-/** What an evaluation gives: the summary, and the cells of the package to change. */
+/** What an evaluation gives: the summary, the cells of the package to change, and the engine. */
 export interface Evaluation {
   report: WorkbookReport;
   edits: WorkbookEdits;
+  /** The engine with the workbook loaded and evaluated (the caller destroys it). */
+  engine: HyperFormula;
 }
 
+/** Builds an engine from whole sheets and names at once (buildMixgapEngine with WORKBOOK_ENGINE_CONFIG). */
+export type WorkbookEngineFactory = (content: EngineContent) => HyperFormula;
+
 /**
- * Evaluates every formula of `book` with `engine` (a fresh engine from buildMixgapEngine with
- * WORKBOOK_ENGINE_CONFIG) and returns the summary and the edits that store the results:
+ * Evaluates every formula of `book` in an engine built by `build` from the whole workbook at once
+ * (sheets and names in one go: the engine's bulk path, with no undo history and one evaluation),
+ * and returns the summary and the edits that store the results:
  *   - a formula cell keeps its formula and gets its computed value;
  *   - a spilled result fills the cells it covers with plain values; its anchor keeps the formula,
  *     stored as an array formula over the covered range so spreadsheet programs show the whole table;
@@ -176,70 +181,79 @@ export interface Evaluation {
  */
 export async function evaluateWorkbook(
   book: WorkbookPackage,
-  engine: HyperFormula,
+  build: WorkbookEngineFactory,
   onProgress?: ProgressListener,
 ): Promise<Evaluation> {
-  const date1904 = book.date1904;
   const sheets = book.sheets.map((s) => s.name);
   const formulas: FormulaCell[] = [];
   /** Per sheet: cells of array ranges of the input (other than their anchors), as row * 16384 + col. */
   const arrayCells = new Map<string, Set<number>>();
   const key = (row: number, col: number) => row * 16384 + col;
 
-  // Sheets and plain values first, in one batch: nothing is evaluated yet.
-  engine.batch(() => {
-    for (const sheet of book.sheets) engine.addSheet(sheet.name);
-    for (const sheet of book.sheets) {
-      const sheetId = engine.getSheetId(sheet.name)!;
-      const covered = new Set<number>();
-      for (const row of sheet.rows) {
-        for (const cell of row.cells) {
-          const f = cell.formula;
-          if (f?.kind !== 'array' || !f.ref) continue;
-          let r;
-          try { r = parseRange(f.ref); } catch { continue; }
-          for (let i = r.top; i <= r.bottom; i++) {
-            for (let j = r.left; j <= r.right; j++) if (i !== cell.row || j !== cell.col) covered.add(key(i, j));
-          }
-        }
-      }
-      arrayCells.set(sheet.name, covered);
-      for (const row of sheet.rows) {
-        for (const cell of row.cells) {
-          if (covered.has(key(cell.row, cell.col))) continue;
-          const f = cell.formula;
-          if (f && f.text && f.kind !== 'dataTable') {
-            formulas.push({ sheet: sheet.name, sheetId, row: cell.row, col: cell.col, text: f.text });
-            continue;
-          }
-          const content = rawContent(cell, book.sharedStrings, date1904);
-          if (content !== null) engine.setCellContents({ sheet: sheetId, row: cell.row, col: cell.col }, [[content]]);
+  const content: Sheets = {};
+  book.sheets.forEach((sheet, sheetId) => {
+    const covered = new Set<number>();
+    for (const row of sheet.rows) {
+      for (const cell of row.cells) {
+        const f = cell.formula;
+        if (f?.kind !== 'array' || !f.ref) continue;
+        let r;
+        try { r = parseRange(f.ref); } catch { continue; }
+        for (let i = r.top; i <= r.bottom; i++) {
+          for (let j = r.left; j <= r.right; j++) if (i !== cell.row || j !== cell.col) covered.add(key(i, j));
         }
       }
     }
-    // Defined names that stand for a cell, a range or a formula (print areas and the like excluded).
-    for (const { name, text, localSheet } of book.names) {
-      if (!name || name.startsWith('_xl') || !text) continue;
-      const sheetName = localSheet !== undefined ? book.sheetNames[localSheet] : undefined;
-      const scope = sheetName !== undefined ? engine.getSheetId(sheetName) : undefined;
-      if (localSheet !== undefined && scope === undefined) continue;
-      const expression = engineFormula(text);
-      if (engine.isItPossibleToAddNamedExpression(name, expression, scope)) engine.addNamedExpression(name, expression, scope);
+    arrayCells.set(sheet.name, covered);
+    const grid: RawCellContent[][] = [];
+    for (const row of sheet.rows) {
+      for (const cell of row.cells) {
+        if (covered.has(key(cell.row, cell.col))) continue;
+        const f = cell.formula;
+        let value: RawCellContent;
+        if (f && f.text && f.kind !== 'dataTable') {
+          formulas.push({ sheet: sheet.name, sheetId, row: cell.row, col: cell.col, text: f.text });
+          value = engineFormula(f.text);
+        } else {
+          value = rawContent(cell, book.sharedStrings, book.date1904);
+          if (value === null) continue;
+        }
+        (grid[cell.row] ??= [])[cell.col] = value;
+      }
     }
+    // The engine wants whole rows: no holes (empty rows and cells are null).
+    for (let r = 0; r < grid.length; r++) {
+      const row = (grid[r] ??= []);
+      for (let c = 0; c < row.length; c++) if (row[c] === undefined) row[c] = null;
+    }
+    content[sheet.name] = grid;
   });
 
-  // Formulas in chunks, each chunk one batch, so progress can be shown. A formula whose inputs come
-  // in a later chunk is evaluated again then: the engine keeps every result consistent.
-  const chunk = Math.max(1, Math.ceil(formulas.length / 100));
-  for (let i = 0; i < formulas.length; i += chunk) {
+  // Defined names that stand for a cell, a range or a formula (print areas and the like excluded).
+  const names: SerializedNamedExpression[] = [];
+  for (const { name, text, localSheet } of book.names) {
+    if (!name || name.startsWith('_xl') || !text) continue;
+    const sheetName = localSheet !== undefined ? book.sheetNames[localSheet] : undefined;
+    const scope = sheetName !== undefined ? sheets.indexOf(sheetName) : undefined;
+    if (localSheet !== undefined && (scope === undefined || scope < 0)) continue;
+    names.push({ name, expression: engineFormula(text), ...(scope !== undefined ? { scope } : {}) });
+  }
+
+  await onProgress?.(0, formulas.length);
+  let engine: HyperFormula;
+  try {
+    engine = build({ sheets: content, names });
+  } catch {
+    // A name the engine does not accept (it refuses the whole list): load without names, then
+    // add the ones it takes, one by one.
+    engine = build({ sheets: content });
     engine.batch(() => {
-      for (const f of formulas.slice(i, i + chunk)) {
-        engine.setCellContents({ sheet: f.sheetId, row: f.row, col: f.col }, [[engineFormula(f.text)]]);
+      for (const n of names) {
+        if (engine.isItPossibleToAddNamedExpression(n.name, n.expression, n.scope)) engine.addNamedExpression(n.name, n.expression, n.scope);
       }
     });
-    await onProgress?.(Math.min(i + chunk, formulas.length), formulas.length);
-    await yieldToEventLoop();
   }
+  await onProgress?.(formulas.length, formulas.length);
 
   // Results, as edits of the package's cells.
   const report: WorkbookReport = { sheets, formulas: formulas.length, spills: 0, spilledCells: 0, errors: [] };
@@ -294,8 +308,12 @@ export async function evaluateWorkbook(
       }
     }
   }
-  return { report, edits };
+  return { report, edits, engine };
 }
 
-/** Engine settings a workbook needs: room for as many rows and columns as a spreadsheet has. */
-export const WORKBOOK_ENGINE_CONFIG: Partial<ConfigParams> = { maxRows: 1048576, maxColumns: 16384 };
+/**
+ * Engine settings a workbook needs: room for as many rows and columns as a spreadsheet has, and no
+ * undo history (a workbook is loaded once and never undone; keeping every change for undo made
+ * loading a big workbook slower than evaluating it, by far).
+ */
+export const WORKBOOK_ENGINE_CONFIG: Partial<ConfigParams> = { maxRows: 1048576, maxColumns: 16384, undoLimit: 0 };

@@ -341,8 +341,11 @@ function valueXml(v: FileValue, formula: boolean, p: string): { t?: string; xml:
 }
 
 /** Sets (or, with undefined, removes) one attribute in a tag's raw attribute text; the others stay as written. */
+const setAttrPatterns = new Map<string, RegExp>();
 function setAttr(attrText: string, name: string, value: string | undefined): string {
-  const re = new RegExp(`(\\s+)${name.replace(/[.:]/g, '\\$&')}\\s*=\\s*("[^"]*"|'[^']*')`);
+  let re = setAttrPatterns.get(name);
+  if (!re) setAttrPatterns.set(name, (re = new RegExp(`(\\s+)${name.replace(/[.:]/g, '\\$&')}\\s*=\\s*("[^"]*"|'[^']*')`)));
+  if (value === undefined && !attrText.includes(name)) return attrText;
   if (value === undefined) return attrText.replace(re, '');
   if (re.test(attrText)) return attrText.replace(re, `$1${name}="${value}"`);
   const trailing = /\s*$/.exec(attrText)![0];
@@ -441,13 +444,13 @@ export function patchSheet(sheet: SheetPart, edits: Map<number, Map<number, Cell
     while (rowCursor < sheet.rows.length && sheet.rows[rowCursor].row < r) rowCursor++;
     const at = rowCursor > 0 ? sheet.rows[rowCursor - 1].end : sheet.sheetData.openEnd;
     const cells = cols.map((c) => { grow(r, c); return cellXml(sheet, undefined, r, c, colEdits.get(c)!); }).join('');
-    newRows.push({ at, text: `<${p}row r="${r + 1}">${cells}</${p}row>` });
+    const text = `<${p}row r="${r + 1}">${cells}</${p}row>`;
+    if (sheet.sheetData.selfClosing) newRows.push({ at, text });
+    else splices.push({ start: at, end: at, text });
   }
   if (sheet.sheetData.selfClosing && newRows.length) {
     const { name, attrText } = tagAttrText(xml, sheet.sheetData.start, sheet.sheetData.openEnd);
     splices.push({ start: sheet.sheetData.start, end: sheet.sheetData.end, text: `<${name}${attrText}>${newRows.map((n) => n.text).join('')}</${name}>` });
-  } else {
-    for (const n of newRows) splices.push({ start: n.at, end: n.at, text: n.text });
   }
   if (sheet.dimension && bounds) {
     const { name, attrText } = tagAttrText(xml, sheet.dimension.start, sheet.dimension.end);
@@ -456,16 +459,22 @@ export function patchSheet(sheet: SheetPart, edits: Map<number, Map<number, Cell
       : `${a1(bounds.top, bounds.left)}:${a1(bounds.bottom, bounds.right)}`;
     if (ref !== attribute(attrText, 'ref')) splices.push({ start: sheet.dimension.start, end: sheet.dimension.end, text: `<${name}${setAttr(attrText, 'ref', ref)}/>` });
   }
-  // By offset; at one offset, insertions (new rows, in row order) before the element that starts there.
-  const ordered = splices.map((s, i) => ({ ...s, i }))
-    .sort((a, b) => a.start - b.start || Number(a.end > a.start) - Number(b.end > b.start) || a.i - b.i);
-  let out = '';
+  // By offset; at one offset, insertions (new rows, in row order) before the element that starts
+  // there. They come in that order already but for the dimension (sorted here, stably).
+  const before = (a: { start: number; end: number }, b: { start: number; end: number }) =>
+    a.start - b.start || Number(a.end > a.start) - Number(b.end > b.start);
+  let ordered = splices;
+  if (!splices.every((s, i) => i === 0 || before(splices[i - 1], s) <= 0)) {
+    ordered = splices.map((s, i) => ({ s, i })).sort((a, b) => before(a.s, b.s) || a.i - b.i).map((x) => x.s);
+  }
+  const out: string[] = [];
   let pos = 0;
   for (const s of ordered) {
-    out += xml.slice(pos, s.start) + s.text;
+    out.push(xml.slice(pos, s.start), s.text);
     pos = s.end;
   }
-  return out + xml.slice(pos);
+  out.push(xml.slice(pos));
+  return out.join('');
 }
 
 function dimensionBounds(ref: string | undefined): { top: number; left: number; bottom: number; right: number } | undefined {
@@ -481,7 +490,8 @@ export async function writePackage(pkg: WorkbookPackage, edits: WorkbookEdits): 
   for (const sheet of pkg.sheets) {
     const sheetEdits = edits.get(sheet.name);
     if (!sheetEdits || sheetEdits.size === 0) continue;
-    pkg.zip.file(sheet.path, patchSheet(sheet, sheetEdits));
+    // As bytes: Node's own UTF-8 encoder is far faster than the zip library's.
+    pkg.zip.file(sheet.path, Buffer.from(patchSheet(sheet, sheetEdits), 'utf8'));
   }
-  return pkg.zip.generateAsync({ type: 'nodebuffer', compression: 'DEFLATE', compressionOptions: { level: 6 } });
+  return pkg.zip.generateAsync({ type: 'nodebuffer', compression: 'DEFLATE', compressionOptions: { level: 3 } });
 }

@@ -47,10 +47,15 @@ export function attributes(attrText: string): Array<[string, string]> {
   return out;
 }
 
+const attributePatterns = new Map<string, RegExp>();
+
 /** One attribute by its local name (any prefix), or undefined. */
 export function attribute(attrText: string, local: string): string | undefined {
-  for (const [name, value] of attributes(attrText)) if (name === local || name.endsWith(`:${local}`)) return value;
-  return undefined;
+  if (!attrText.includes(local)) return undefined; // the common case, without a regular expression
+  let re = attributePatterns.get(local);
+  if (!re) attributePatterns.set(local, (re = new RegExp(`(?:^|\\s)(?:[\\w.-]+:)?${local}\\s*=\\s*(?:"([^"]*)"|'([^']*)')`)));
+  const m = re.exec(attrText);
+  return m ? unescapeXml(m[1] ?? m[2]) : undefined;
 }
 
 const ENTITIES: Record<string, string> = { amp: '&', lt: '<', gt: '>', quot: '"', apos: "'" };

@@ -151,6 +151,36 @@ function spillExtent(engine: HyperFormula, anchor: SimpleCellAddress): { rows: n
   return { rows, cols };
 }
 
+/**
+ * Why a spilled result has no room, naming the cells in the way: the engine reports only "no space",
+ * so the result is computed again in the sheet's context (not placed) to learn its size, and the
+ * cells it would cover are searched for values or formulas. Undefined when that cannot be told.
+ */
+export function spillBlockers(engine: HyperFormula, anchor: SimpleCellAddress): string | undefined {
+  const formula = engine.getCellFormula(anchor);
+  if (!formula) return undefined;
+  let result: unknown;
+  try {
+    result = engine.calculateFormula(formula, anchor.sheet);
+  } catch {
+    return undefined;
+  }
+  if (!Array.isArray(result) || result.length === 0) return undefined;
+  const rows = result.length, cols = Math.max(...(result as unknown[][]).map((r) => r.length));
+  const blockers: string[] = [];
+  for (let i = 0; i < rows; i++) {
+    for (let j = 0; j < cols; j++) {
+      if (i === 0 && j === 0) continue;
+      const at = { sheet: anchor.sheet, row: anchor.row + i, col: anchor.col + j };
+      if (!engine.isCellEmpty(at)) blockers.push(a1(at.row, at.col));
+    }
+  }
+  if (blockers.length === 0) return undefined;
+  const range = a1Range(anchor.row, anchor.col, anchor.row + rows - 1, anchor.col + cols - 1);
+  const listed = blockers.length > 3 ? `${blockers.slice(0, 3).join(', ')} and ${blockers.length - 3} more cells are` : blockers.length > 1 ? `${blockers.join(', ')} are` : `${blockers[0]} is`;
+  return `no room for the spilled result (${range}): ${listed} not empty; clear ${blockers.length > 1 ? 'them' : 'it'} or move the formula`;
+}
+
 /** Reads the workbook package at `file` (.xlsx or .xlsm). */
 export async function readWorkbook(file: string): Promise<WorkbookPackage> {
   return readPackage(readFileSync(file), file);
@@ -273,7 +303,13 @@ export async function evaluateWorkbook(
   for (const f of formulas) {
     const anchor = { sheet: f.sheetId, row: f.row, col: f.col };
     const value = engine.getCellValue(anchor);
-    noteError(f.sheet, f.row, f.col, value, false);
+    if (value instanceof DetailedCellError && value.value === '#SPILL!') {
+      const why = spillBlockers(engine, anchor);
+      if (why) report.errors.push({ sheet: f.sheet, address: a1(f.row, f.col), code: value.value, message: why, spilled: false });
+      else noteError(f.sheet, f.row, f.col, value, false);
+    } else {
+      noteError(f.sheet, f.row, f.col, value, false);
+    }
     const extent = engine.isCellPartOfArray(anchor) ? spillExtent(engine, anchor) : { rows: 1, cols: 1 };
     if (extent.rows === 1 && extent.cols === 1) {
       setEdit(f.sheet, f.row, f.col, { value: fileValue(value) });

@@ -193,17 +193,23 @@ describe('mixgap calc on an unseen workbook', () => {
 });
 
 describe('mixgap calc failures', () => {
-  test('a spill blocked by a value shows #SPILL! in the summary and #REF! in the file', async () => {
+  test('a spill blocked by a value shows #SPILL! in the summary, naming the blocking cell, and #REF! in the file', async () => {
     const d = mkdtempSync(path.join(os.tmpdir(), 'mixgap-spill-'));
     const file = path.join(d, 'blocked.xlsx');
     const wb = new ExcelJS.Workbook();
     const ws = wb.addWorksheet('S');
     ws.getCell('A1').value = { formula: 'SEQUENCE(3)' } as ExcelJS.CellFormulaValue;
     ws.getCell('A2').value = 7;
+    const two = wb.addWorksheet('T');
+    two.getCell('A1').value = { formula: 'SEQUENCE(2,3)' } as ExcelJS.CellFormulaValue;
+    two.getCell('B1').value = 'in the way';
+    two.getCell('C2').value = { formula: '1+1' } as ExcelJS.CellFormulaValue;
     await wb.xlsx.writeFile(file);
     const r = mixgap(['calc', file, '-o', `${d}/`]);
     expect(r.status).toBe(0);
-    expect(r.stdout).toMatch(/S!A1 +#SPILL!/);
+    // The summary names the cell in the way (A2) and the range the result needs (A1:A3).
+    expect(r.stdout).toMatch(/S!A1 +#SPILL! +no room for the spilled result \(A1:A3\): A2 is not empty; clear it or move the formula/);
+    expect(r.stdout).toMatch(/T!A1 +#SPILL! +no room for the spilled result \(A1:C2\): B1, C2 are not empty; clear them/);
     const back = new ExcelJS.Workbook();
     await back.xlsx.readFile(path.join(d, 'blocked.computed.xlsx'));
     expect(cached(back.getWorksheet('S')!, 'A1')).toEqual({ error: '#REF!' });

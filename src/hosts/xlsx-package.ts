@@ -329,7 +329,11 @@ export type WorkbookEdits = Map<string, Map<number, Map<number, CellEdit>>>;
 
 /** `t` attribute and child elements of a value; `formula`: the cell keeps a formula. */
 function valueXml(v: FileValue, formula: boolean, p: string): { t?: string; xml: string } {
-  if ('number' in v) return { xml: `<${p}v>${Object.is(v.number, -0) ? '0' : String(v.number)}</${p}v>` };
+  if ('number' in v) {
+    // Shortest text that reads back as the same double, with the capital E spreadsheet programs write.
+    if (!Number.isFinite(v.number)) return { t: 'e', xml: `<${p}v>#NUM!</${p}v>` };
+    return { xml: `<${p}v>${Object.is(v.number, -0) ? '0' : String(v.number).replace('e', 'E')}</${p}v>` };
+  }
   if ('boolean' in v) return { t: 'b', xml: `<${p}v>${v.boolean ? 1 : 0}</${p}v>` };
   if ('error' in v) return { t: 'e', xml: `<${p}v>${encodeXstring(v.error)}</${p}v>` };
   if ('text' in v) {

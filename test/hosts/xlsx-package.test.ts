@@ -74,3 +74,16 @@ describe('patchSheet', () => {
     expect(out).toContain('<row r="2"><c r="C2" s="1"><f>IF(1,"")</f></c></row>');
   });
 });
+
+describe('numbers in the file', () => {
+  test('every double is written as text that reads back as the same double', () => {
+    // IEEE 754 doubles (IEEE 754-2019): the smallest subnormal, the largest finite, and values whose
+    // shortest decimal needs an exponent; Number() of the text must give the same bits.
+    const xml = `<worksheet xmlns="${NS}"><sheetData/></worksheet>`;
+    const values = [5e-324, 1.7976931348623157e308, 4e-11, 1e21, 0.1 + 0.2, -123.456e-7, 2 / 3];
+    const out = patchSheet(parseSheet('S', 'p', xml), edits(values.map((n, i) => [i, 0, { value: { number: n } }] as [number, number, CellEdit])));
+    const back = read(out).map(([, , v]) => Number(v));
+    expect(back).toEqual(values);
+    expect(out).toContain('<v>1E+21</v>');
+  });
+});

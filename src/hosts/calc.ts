@@ -126,6 +126,9 @@ export async function calcWorkbook(input: string, metadata: CustomFunctionsMetad
   const book = await readPackage(readFileSync(input), input);
   if (defaultName) output = path.join(path.dirname(output), computedName(input, book.macroEnabled));
   else checkOutputName(output, book.macroEnabled);
+  if (path.resolve(output) === path.resolve(input)) {
+    throw new Error(`the output ${output} is the input: mixgap calc never overwrites its input; give another -o`);
+  }
 
   let bar: SingleBar | undefined;
   const stream = options.progressStream;

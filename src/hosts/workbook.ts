@@ -221,7 +221,7 @@ export async function evaluateWorkbook(
   const key = (row: number, col: number) => row * 16384 + col;
 
   const content: Sheets = {};
-  book.sheets.forEach((sheet, sheetId) => {
+  book.sheets.forEach((sheet) => {
     const covered = new Set<number>();
     for (const row of sheet.rows) {
       for (const cell of row.cells) {
@@ -242,7 +242,7 @@ export async function evaluateWorkbook(
         const f = cell.formula;
         let value: RawCellContent;
         if (f && f.text && f.kind !== 'dataTable') {
-          formulas.push({ sheet: sheet.name, sheetId, row: cell.row, col: cell.col, text: f.text });
+          formulas.push({ sheet: sheet.name, sheetId: -1, row: cell.row, col: cell.col, text: f.text });
           value = engineFormula(f.text);
         } else {
           value = rawContent(cell, book.sharedStrings, book.date1904);
@@ -260,11 +260,14 @@ export async function evaluateWorkbook(
   });
 
   // Defined names that stand for a cell, a range or a formula (print areas and the like excluded).
+  // The engine numbers sheets in the order of the object's keys (where a name such as "2024" comes
+  // first): scopes follow that order, and sheet ids are asked of the engine once it is built.
+  const order = Object.keys(content);
   const names: SerializedNamedExpression[] = [];
   for (const { name, text, localSheet } of book.names) {
     if (!name || name.startsWith('_xl') || !text) continue;
     const sheetName = localSheet !== undefined ? book.sheetNames[localSheet] : undefined;
-    const scope = sheetName !== undefined ? sheets.indexOf(sheetName) : undefined;
+    const scope = sheetName !== undefined ? order.indexOf(sheetName) : undefined;
     if (localSheet !== undefined && (scope === undefined || scope < 0)) continue;
     names.push({ name, expression: engineFormula(text), ...(scope !== undefined ? { scope } : {}) });
   }
@@ -284,6 +287,7 @@ export async function evaluateWorkbook(
     });
   }
   await onProgress?.(formulas.length, formulas.length);
+  for (const f of formulas) f.sheetId = engine.getSheetId(f.sheet)!;
 
   // Results, as edits of the package's cells.
   const report: WorkbookReport = { sheets, formulas: formulas.length, spills: 0, spilledCells: 0, errors: [] };

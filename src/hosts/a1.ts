@@ -56,30 +56,65 @@ const MAX_COL = 16384;
  * with more than three letters) are not touched. A reference moved off the sheet becomes #REF!.
  */
 export function slideFormula(formula: string, rows: number, cols: number): string {
-  if (rows === 0 && cols === 0) return formula;
+  return rows === 0 && cols === 0 ? formula : slider(formula)(rows, cols);
+}
+
+type Part = string | ((rows: number, cols: number) => string);
+
+/**
+ * `slideFormula` for one formula and many offsets: the formula is read once, and each call only
+ * moves the references (a shared formula of a whole filled column is moved to every cell of it).
+ */
+export function slider(formula: string): (rows: number, cols: number) => string {
   const token = /("(?:[^"]|"")*"|'(?:[^']|'')*')|(\[[^\]]*\])|(\$?)([A-Za-z]{1,3})(\$?)(\d{1,7})(?![\w.(!])|(\$?)([A-Za-z]{1,3}):(\$?)([A-Za-z]{1,3})(?![\w.(!])|(\$?)(\d{1,7}):(\$?)(\d{1,7})(?![\w.(!])/g;
-  return formula.replace(token, (match, quoted, bracket, cDollar, colText, rDollar, rowText, c1D, c1, c2D, c2, r1D, r1, r2D, r2, offset: number) => {
-    if (quoted !== undefined || bracket !== undefined) return match;
-    const before = offset > 0 ? formula[offset - 1] : '';
-    if (/[\w.$]/.test(before)) return match; // inside a longer name or number
-    const moveCol = (letters: string, fixed: string) => {
-      const c = fixed ? columnIndex(letters) : columnIndex(letters) + cols;
-      return c < 0 || c >= MAX_COL ? undefined : `${fixed}${columnName(c)}`;
+  const parts: Part[] = [];
+  let last = 0;
+  for (let m = token.exec(formula); m; m = token.exec(formula)) {
+    const [match, quoted, bracket, cDollar, colText, rDollar, rowText, c1D, c1, c2D, c2, r1D, r1, r2D, r2] = m;
+    if (quoted !== undefined || bracket !== undefined) continue;
+    const before = m.index > 0 ? formula[m.index - 1] : '';
+    if (/[\w.$]/.test(before)) continue; // inside a longer name or number
+    if (colText !== undefined && columnIndex(colText) >= MAX_COL) continue; // a name such as ZZZ1, not a column
+    parts.push(formula.slice(last, m.index));
+    last = m.index + match.length;
+    const col = (letters: string, fixed: string) => {
+      const c0 = columnIndex(letters);
+      return (cols: number) => {
+        const c = fixed ? c0 : c0 + cols;
+        return c < 0 || c >= MAX_COL ? undefined : `${fixed}${columnName(c)}`;
+      };
     };
-    const moveRow = (digits: string, fixed: string) => {
-      const r = fixed ? Number(digits) : Number(digits) + rows;
-      return r < 1 || r > MAX_ROW ? undefined : `${fixed}${r}`;
+    const row = (digits: string, fixed: string) => {
+      const r0 = Number(digits);
+      return (rows: number) => {
+        const r = fixed ? r0 : r0 + rows;
+        return r < 1 || r > MAX_ROW ? undefined : `${fixed}${r}`;
+      };
     };
     if (colText !== undefined) {
-      if (columnIndex(colText) >= MAX_COL) return match; // a name such as ZZZ1, not a column
-      const c = moveCol(colText, cDollar), r = moveRow(rowText, rDollar);
-      return c === undefined || r === undefined ? '#REF!' : `${c}${r}`;
+      const c = col(colText, cDollar), r = row(rowText, rDollar);
+      parts.push((rows, cols) => {
+        const a = c(cols), b = r(rows);
+        return a === undefined || b === undefined ? '#REF!' : `${a}${b}`;
+      });
+    } else if (c1 !== undefined) {
+      const a = col(c1, c1D), b = col(c2, c2D);
+      parts.push((_rows, cols) => {
+        const x = a(cols), y = b(cols);
+        return x === undefined || y === undefined ? '#REF!' : `${x}:${y}`;
+      });
+    } else {
+      const a = row(r1, r1D), b = row(r2, r2D);
+      parts.push((rows) => {
+        const x = a(rows), y = b(rows);
+        return x === undefined || y === undefined ? '#REF!' : `${x}:${y}`;
+      });
     }
-    if (c1 !== undefined) {
-      const a = moveCol(c1, c1D), b = moveCol(c2, c2D);
-      return a === undefined || b === undefined ? '#REF!' : `${a}:${b}`;
-    }
-    const a = moveRow(r1, r1D), b = moveRow(r2, r2D);
-    return a === undefined || b === undefined ? '#REF!' : `${a}:${b}`;
-  });
+  }
+  parts.push(formula.slice(last));
+  return (rows, cols) => {
+    let out = '';
+    for (const p of parts) out += typeof p === 'string' ? p : p(rows, cols);
+    return out;
+  };
 }

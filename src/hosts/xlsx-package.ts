@@ -7,7 +7,7 @@
  */
 import path from 'path';
 import JSZip from 'jszip';
-import { a1, parseA1, parseRange, slideFormula } from './a1';
+import { a1, parseA1, parseRange, slider } from './a1';
 import { attribute, encodeXstring, runText, tags, unescapeXml } from './xml';
 import type { Tag } from './xml';
 
@@ -149,7 +149,7 @@ export function parseSheet(name: string, partPath: string, xml: string): SheetPa
     }
   }
   if (!sheetData) throw new Error(`the sheet part ${partPath} has no cell data`);
-  const shared = new Map<string, { text: string; row: number; col: number }>();
+  const shared = new Map<string, { slide: (rows: number, cols: number) => string; row: number; col: number }>();
 
   if (!sheetData.selfClosing) {
     let row: FileRow | undefined;
@@ -168,10 +168,10 @@ export function parseSheet(name: string, partPath: string, xml: string): SheetPa
           const si = attribute(ch.attrText, 'si');
           let text = self ? '' : unescapeXml(inner());
           if (kind === 'shared' && si !== undefined) {
-            if (text) shared.set(si, { text, row: c.row, col: c.col });
+            if (text) shared.set(si, { slide: slider(text), row: c.row, col: c.col });
             else {
               const master = shared.get(si);
-              if (master) text = slideFormula(master.text, c.row - master.row, c.col - master.col);
+              if (master) text = master.slide(c.row - master.row, c.col - master.col);
             }
           }
           c.formula = { text, kind, ...(ref ? { ref } : {}) };

@@ -184,6 +184,7 @@ export function formatSummary(r: CalcResult, maxListed = 8): string {
     lines.push(`    ${where.padEnd(14)} ${e.code.padEnd(8)} ${message.length > 90 ? `${message.slice(0, 87)}...` : message}`);
   }
   if (own.length > maxListed) lines.push(`    ... and ${own.length - maxListed} more`);
+  for (const note of report.notes ?? []) lines.push(`  note       ${note}`);
   lines.push(`  time       ${r.seconds.toFixed(2)} s`);
   return `${lines.join('\n')}\n`;
 }

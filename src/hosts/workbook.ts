@@ -53,6 +53,26 @@ export interface WorkbookReport {
   spilledCells: number;
   /** Every cell (formula or spilled) that shows an error. */
   errors: CellErrorReport[];
+  /** What the copy carries over as it was although it may show older numbers (charts' caches, ...). */
+  notes: string[];
+}
+
+/**
+ * What `calc` keeps byte for byte but cannot bring up to date: parts that hold their own copy of
+ * cell values (charts, pivot caches), and what-if data tables, which the engine does not compute.
+ */
+function carriedNotes(book: WorkbookPackage): string[] {
+  const parts = Object.keys(book.zip.files);
+  const count = (re: RegExp) => parts.filter((p) => re.test(p)).length;
+  const notes: string[] = [];
+  const charts = count(/^xl\/charts\/chart[^/]*\.xml$/i);
+  if (charts) notes.push(`${charts} chart${charts > 1 ? 's' : ''} carried over as ${charts > 1 ? 'they were' : 'it was'}: ${charts > 1 ? 'their' : 'its'} cached series show the input's numbers until the spreadsheet program refreshes them`);
+  const pivots = count(/^xl\/pivotCache\/pivotCacheDefinition[^/]*\.xml$/i);
+  if (pivots) notes.push(`${pivots} pivot cache${pivots > 1 ? 's' : ''} carried over as ${pivots > 1 ? 'they were' : 'it was'}: pivot tables show the input's numbers until refreshed`);
+  let tables = 0;
+  for (const sheet of book.sheets) for (const row of sheet.rows) for (const cell of row.cells) if (cell.formula?.kind === 'dataTable') tables++;
+  if (tables) notes.push(`${tables} what-if data table formula${tables > 1 ? 's' : ''} not computed: ${tables > 1 ? 'their' : 'its'} cells keep their values`);
+  return notes;
 }
 
 /** Called while formulas are evaluated: how many of how many are done. */
@@ -290,7 +310,7 @@ export async function evaluateWorkbook(
   for (const f of formulas) f.sheetId = engine.getSheetId(f.sheet)!;
 
   // Results, as edits of the package's cells.
-  const report: WorkbookReport = { sheets, formulas: formulas.length, spills: 0, spilledCells: 0, errors: [] };
+  const report: WorkbookReport = { sheets, formulas: formulas.length, spills: 0, spilledCells: 0, errors: [], notes: carriedNotes(book) };
   const edits: WorkbookEdits = new Map(sheets.map((s) => [s, new Map<number, Map<number, CellEdit>>()]));
   const setEdit = (sheet: string, row: number, col: number, edit: CellEdit) => {
     const rows = edits.get(sheet)!;

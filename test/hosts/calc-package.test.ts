@@ -98,6 +98,11 @@ describe('mixgap calc keeps every part of a workbook from another writer', () =>
     expect(readdirSync(dir).sort()).toEqual(['other.computed.xlsx', 'other.xlsx']);
   });
 
+  test('the summary says what is kept as it was although it may show the input\'s numbers', () => {
+    expect(run.stdout).toMatch(/note +1 chart carried over as it was: its cached series show the input's numbers until the spreadsheet program refreshes them/);
+    expect(run.stdout).toMatch(/note +1 pivot cache carried over as it was/);
+  });
+
   test('the same parts, and every part but the worksheets byte for byte', () => {
     expect([...after.keys()].sort()).toEqual([...before.keys()].sort());
     for (const [name, bytes] of before) {

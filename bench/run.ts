@@ -12,12 +12,14 @@ import { floryHuggins } from '../src/core/models/floryHuggins';
 import { nrtl } from '../src/core/models/nrtl';
 import { redlichKister } from '../src/core/models/redlichKister';
 import { execFileSync, spawnSync } from 'child_process';
-import { readFileSync } from 'fs';
-import os from 'os';
-import path from 'path';
 import * as cells from '../src/functions/functions';
 import { fitTieLines } from '../src/core/fit/tieLines';
 import * as fitCells from '../src/functions/fitting';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'fs';
+import os from 'os';
+import path from 'path';
+import JSZip from 'jszip';
+import { calcWorkbook } from '../src/hosts/calc';
 
 const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)];
 const fmt = (us: number) => (us < 1000 ? `${us.toFixed(2)} µs` : `${(us / 1000).toFixed(2)} ms`);
@@ -66,12 +68,10 @@ const models: Array<[string, BinaryModel, number, number]> = [
 
 if (process.argv[2] === 'memory') memory();
 else if (process.argv[2] === 'startup') startup();
-else {
-  main();
-  startup();
-}
+else if (process.argv[2] === 'workbooks') void workbookSection();
+else main().then(startup).catch((e) => { console.error(e); process.exit(1); });
 
-function main() {
+async function main() {
 console.log(`Mixgap benchmark, node ${process.version}, ${new Date().toISOString()}\n`);
 for (const [name, model, T1, T2] of models) {
   const span = T2 - T1;
@@ -106,6 +106,7 @@ report('1e6 distinct GAPLOW calls: heap in use after them (after GC)', `${figure
 report('1e6 distinct GAPLOW calls: heap in use before them (after GC)', `${figures.heapBeforeMB.toFixed(1)} MB`);
 report('1e6 distinct GAPLOW calls: time per call', fmt(figures.usPerCall));
 worstCases();
+await workbookSection();
 }
 
 /** 1e6 distinct calls through the cell function (every one a cache miss); prints JSON figures. */
@@ -245,4 +246,83 @@ function startup() {
     }
   });
   report('load average of the machine (1 min) after these runs', os.loadavg()[0].toFixed(2), `${os.cpus().length} cores`);
+}
+
+
+// ---------------------------------------------------------------------------------------------
+// Workbooks (issue "a big workbook in seconds, not minutes"): `mixgap calc` on a generated
+// temperature grid, N rows of T (a filled-down column, T(i+1) = T(i) + step) and five Mixgap
+// formulas per row (GAPLOW, GAPHIGH, SPINLOW, SPINHIGH, GAPCOUNT of a 3-term Redlich–Kister card),
+// written as shared formulas the way a spreadsheet program stores a filled range. Timed end to end
+// (read, evaluate, write), in this process and as the command a user runs (a fresh node process).
+// Target: 25,000 formulas < 2 s, and 100,000 no more than 4x that (cost linear).
+// ---------------------------------------------------------------------------------------------
+async function gridWorkbook(file: string, rows: number): Promise<number> {
+  const NS = 'http://schemas.openxmlformats.org/spreadsheetml/2006/main';
+  const R = 'http://schemas.openxmlformats.org/officeDocument/2006/relationships';
+  const CT = 'application/vnd.openxmlformats-officedocument.spreadsheetml';
+  const zip = new JSZip();
+  zip.file('[Content_Types].xml', '<?xml version="1.0" encoding="UTF-8" standalone="yes"?><Types xmlns="http://schemas.openxmlformats.org/package/2006/content-types">'
+    + '<Default Extension="rels" ContentType="application/vnd.openxmlformats-package.relationships+xml"/><Default Extension="xml" ContentType="application/xml"/>'
+    + `<Override PartName="/xl/workbook.xml" ContentType="${CT}.sheet.main+xml"/><Override PartName="/xl/worksheets/sheet1.xml" ContentType="${CT}.worksheet+xml"/>`
+    + `<Override PartName="/xl/worksheets/sheet2.xml" ContentType="${CT}.worksheet+xml"/></Types>`);
+  zip.file('_rels/.rels', `<Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships"><Relationship Id="rId1" Type="${R}/officeDocument" Target="xl/workbook.xml"/></Relationships>`);
+  zip.file('xl/workbook.xml', `<workbook xmlns="${NS}" xmlns:r="${R}"><sheets><sheet name="Card" sheetId="1" r:id="rId1"/><sheet name="Grid" sheetId="2" r:id="rId2"/></sheets>`
+    + '<definedNames><definedName name="Card">Card!$A$1:$C$3</definedName></definedNames></workbook>');
+  zip.file('xl/_rels/workbook.xml.rels', `<Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships"><Relationship Id="rId1" Type="${R}/worksheet" Target="worksheets/sheet1.xml"/>`
+    + `<Relationship Id="rId2" Type="${R}/worksheet" Target="worksheets/sheet2.xml"/></Relationships>`);
+  const card = rk3Params.map((row, i) => `<row r="${i + 1}">${row.map((v, j) => `<c r="${'ABC'[j]}${i + 1}"><v>${v}</v></c>`).join('')}</row>`).join('');
+  zip.file('xl/worksheets/sheet1.xml', `<worksheet xmlns="${NS}"><sheetData>${card}</sheetData></worksheet>`);
+  const fns = ['GAPLOW', 'GAPHIGH', 'SPINLOW', 'SPINHIGH', 'GAPCOUNT'];
+  const step = 400 / rows; // 500 to 900 K
+  const parts: string[] = [];
+  for (let i = 0; i < rows; i++) {
+    const r = i + 1;
+    const T = i === 0 ? '<c r="A1"><v>500</v></c>' : `<c r="A${r}">${i === 1 ? `<f t="shared" ref="A2:A${rows}" si="0">A1+${step}</f>` : '<f t="shared" si="0"/>'}</c>`;
+    const cells = fns.map((name, j) => {
+      const col = 'BCDEF'[j];
+      const f = i === 0 ? `<f t="shared" ref="${col}1:${col}${rows}" si="${j + 1}">MIXGAP.${name}($A1,Card)</f>` : `<f t="shared" si="${j + 1}"/>`;
+      return `<c r="${col}${r}">${f}</c>`;
+    }).join('');
+    parts.push(`<row r="${r}">${T}${cells}</row>`);
+  }
+  zip.file('xl/worksheets/sheet2.xml', `<worksheet xmlns="${NS}"><sheetData>${parts.join('')}</sheetData></worksheet>`);
+  writeFileSync(file, await zip.generateAsync({ type: 'nodebuffer', compression: 'DEFLATE' }));
+  return rows * fns.length;
+}
+
+async function workbookSection(): Promise<void> {
+  console.log('\nWorkbooks: mixgap calc on a temperature grid (target: 25,000 formulas < 2 s; 100,000 <= 4x that)');
+  console.log('(wall time depends on what else the machine runs; CPU time is user + system of this process)');
+  const dir = mkdtempSync(path.join(os.tmpdir(), 'mixgap-bench-'));
+  const metadata = JSON.parse(readFileSync(path.join(__dirname, '..', 'functions.json'), 'utf8'));
+  const cli = path.join(__dirname, '..', '..', 'bin', 'mixgap.js'); // what a user runs
+  const wall = new Map<number, number>();
+  const cpu = new Map<number, number>();
+  try {
+    for (const rows of [5000, 20000]) {
+      const file = path.join(dir, `grid${rows}.xlsx`);
+      const n = await gridWorkbook(file, rows);
+      const label = `${n.toLocaleString('en')} Mixgap formulas (+${(rows - 1).toLocaleString('en')} filled T)`;
+      forgetSolves();
+      const c0 = process.cpuUsage();
+      const t0 = performance.now();
+      const result = await calcWorkbook(file, metadata, { output: path.join(dir, `inproc${rows}.xlsx`) });
+      const seconds = (performance.now() - t0) / 1000;
+      const used = process.cpuUsage(c0);
+      const cpuSeconds = (used.user + used.system) / 1e6;
+      wall.set(n, seconds);
+      cpu.set(n, cpuSeconds);
+      const errors = result.report.errors.length;
+      report(`mixgap calc, ${label}: wall / CPU time, in this process`, `${seconds.toFixed(2)} / ${cpuSeconds.toFixed(2)} s`,
+        n === 25000 ? `target < 2 s${errors ? `; ${errors} error cells` : ''}` : `${errors ? `${errors} error cells` : ''}`);
+      const t1 = performance.now();
+      execFileSync(process.execPath, [cli, 'calc', file, '-q', '-o', path.join(dir, `cmd${rows}.xlsx`)]);
+      report(`mixgap calc, ${label}: the command (a fresh node process, start-up included), wall`, `${((performance.now() - t1) / 1000).toFixed(2)} s`);
+    }
+    report('100,000 / 25,000 formulas: ratio of wall / CPU times in this process',
+      `${(wall.get(100000)! / wall.get(25000)!).toFixed(2)} / ${(cpu.get(100000)! / cpu.get(25000)!).toFixed(2)}`, 'target <= 4 (linear)');
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
 }

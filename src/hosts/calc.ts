@@ -1,22 +1,42 @@
 /**
- * `mixgap calc`: a workbook in, a computed copy out. Reads the .xlsx with ExcelJS, evaluates it with
- * the embedded engine (./workbook), writes the copy to a temporary file in the output folder and
- * renames it into place, so a run that fails leaves no half-written output. The input is only read.
+ * `mixgap calc`: a workbook in, a computed copy out. Reads the .xlsx package (./xlsx-package),
+ * evaluates it with the embedded engine (./workbook), and writes a copy of the package in which
+ * only the computed cells differ: every other part (styles, comments, charts, images, pivot tables,
+ * defined names, data validation, conditional formats, macros) is copied byte for byte. The copy
+ * goes to a temporary file in the output folder and is renamed into place, so a run that fails
+ * leaves no half-written output. The input is only read.
  */
-import { existsSync, mkdirSync, renameSync, rmSync, statSync } from 'fs';
+import { existsSync, mkdirSync, readFileSync, renameSync, rmSync, statSync, writeFileSync } from 'fs';
 import path from 'path';
 import { SingleBar, Presets } from 'cli-progress';
-import ExcelJS from 'exceljs';
 import type { CustomFunctionsMetadata } from './engine';
 import { isFolderPath } from './output-path';
 import { buildMixgapEngine } from './mixgap-engine';
 import { evaluateWorkbook, WORKBOOK_ENGINE_CONFIG } from './workbook';
-import type { CellErrorReport, WorkbookReport } from './workbook';
+import type { CellErrorReport, Evaluation, WorkbookReport } from './workbook';
+import { readPackage, writePackage } from './xlsx-package';
 
-/** Name of the computed copy of `input`: report.xlsx -> report.computed.xlsx. */
-export function computedName(input: string): string {
-  const base = path.basename(input).replace(/\.xlsx$/i, '');
-  return `${base}.computed.xlsx`;
+/** Name of the computed copy of `input`: report.xlsx -> report.computed.xlsx, book.xlsm -> book.computed.xlsm. */
+export function computedName(input: string, macroEnabled = /\.xlsm$/i.test(input)): string {
+  const base = path.basename(input).replace(/\.xls[xm]$/i, '');
+  return `${base}.computed.${macroEnabled ? 'xlsm' : 'xlsx'}`;
+}
+
+/** The formats `calc` writes, for messages. */
+const FORMATS = '.xlsx (.xlsm for a workbook with macros)';
+
+/** Refuses an output name whose extension is not what the copy will be. */
+function checkOutputName(output: string, macroEnabled: boolean | undefined): void {
+  const ext = path.extname(output).toLowerCase();
+  if (ext !== '.xlsx' && ext !== '.xlsm') {
+    throw new Error(`cannot write ${output}: mixgap calc writes ${FORMATS}; give -o NAME.xlsx or -o FOLDER/`);
+  }
+  if (macroEnabled === true && ext !== '.xlsm') {
+    throw new Error(`cannot write ${output}: the workbook has macros, which the copy keeps, so it must be an .xlsm; give -o NAME.xlsm or -o FOLDER/`);
+  }
+  if (macroEnabled === false && ext !== '.xlsx') {
+    throw new Error(`cannot write ${output}: the workbook has no macros, so the copy is an .xlsx; give -o NAME.xlsx or -o FOLDER/`);
+  }
 }
 
 /**
@@ -28,16 +48,50 @@ export function outputPath(input: string, output?: string): string {
   return isFolderPath(output) ? path.join(output, computedName(input)) : output;
 }
 
-/** Writes with `write` to a temporary file beside `target`, then renames it to `target`. */
+/** Why a file operation failed, in words (the system's code in brackets). */
+function reason(e: unknown): string {
+  const err = e as NodeJS.ErrnoException;
+  const words: Record<string, string> = {
+    EACCES: 'permission denied',
+    EPERM: 'not permitted',
+    EROFS: 'read-only file system',
+    ENOSPC: 'no space left on the device',
+    ENOTDIR: 'a part of the path is a file, not a folder',
+    EEXIST: 'a file of that name is in the way',
+    EISDIR: 'it is a folder',
+    ENOENT: 'no file can be created there',
+  };
+  return err.code && words[err.code] ? `${words[err.code]} (${err.code})` : err.message ?? String(e);
+}
+
+/**
+ * Writes with `write` to a temporary file beside `target`, then renames it to `target`. A failure
+ * names the folder that could not be written (never the temporary file).
+ */
 export async function writeAtomically(target: string, write: (tmp: string) => Promise<void>): Promise<void> {
-  mkdirSync(path.dirname(path.resolve(target)), { recursive: true });
-  const tmp = path.join(path.dirname(path.resolve(target)), `.${path.basename(target)}.${process.pid}.tmp`);
+  const folder = path.dirname(path.resolve(target));
+  const shown = path.dirname(target) || '.';
+  try {
+    mkdirSync(folder, { recursive: true });
+  } catch (e) {
+    throw new Error(`cannot write to ${shown}: ${reason(e)}`);
+  }
+  const tmp = path.join(folder, `.${path.basename(target)}.${process.pid}.tmp`);
   try {
     await write(tmp);
+  } catch (e) {
+    rmSync(tmp, { force: true });
+    const code = (e as NodeJS.ErrnoException).code;
+    if (code && code in { EACCES: 1, EPERM: 1, EROFS: 1, ENOSPC: 1, ENOTDIR: 1, ENOENT: 1, EDQUOT: 1, EIO: 1 }) {
+      throw new Error(`cannot write to ${shown}: ${reason(e)}`);
+    }
+    throw e;
+  }
+  try {
     renameSync(tmp, target);
   } catch (e) {
     rmSync(tmp, { force: true });
-    throw e;
+    throw new Error(`cannot write ${target}: ${reason(e)}`);
   }
 }
 
@@ -59,22 +113,29 @@ export interface CalcResult {
 /** Evaluates the workbook at `input` and writes its computed copy; resolves to what was done. */
 export async function calcWorkbook(input: string, metadata: CustomFunctionsMetadata, options: CalcOptions = {}): Promise<CalcResult> {
   const started = Date.now();
-  const output = outputPath(input, options.output);
+  let output = outputPath(input, options.output);
   if (path.resolve(output) === path.resolve(input)) {
     throw new Error(`the output ${output} is the input: mixgap calc never overwrites its input; give another -o`);
   }
+  // The default name (beside the input, or in the folder -o gives) follows the package: a workbook
+  // with macros is copied to an .xlsm. A name given with -o must be what the copy will be.
+  const defaultName = !options.output || output === path.join(options.output, computedName(input));
+  if (!defaultName) checkOutputName(output, undefined);
   if (!existsSync(input)) throw new Error(`no such file: ${input}`);
 
-  const wb = new ExcelJS.Workbook();
-  await wb.xlsx.readFile(input);
+  const book = await readPackage(readFileSync(input), input);
+  if (defaultName) output = path.join(path.dirname(output), computedName(input, book.macroEnabled));
+  else checkOutputName(output, book.macroEnabled);
+  if (path.resolve(output) === path.resolve(input)) {
+    throw new Error(`the output ${output} is the input: mixgap calc never overwrites its input; give another -o`);
+  }
 
   let bar: SingleBar | undefined;
   const stream = options.progressStream;
   const after = options.progressAfterMs ?? 1000;
-  const engine = buildMixgapEngine(metadata, WORKBOOK_ENGINE_CONFIG);
-  let report: WorkbookReport;
+  let evaluation: Evaluation | undefined;
   try {
-    report = await evaluateWorkbook(wb, engine, (done, total) => {
+    evaluation = await evaluateWorkbook(book, (content) => buildMixgapEngine(metadata, WORKBOOK_ENGINE_CONFIG, content), (done, total) => {
       if (!stream?.isTTY) return;
       if (!bar && Date.now() - started >= after && done < total) {
         bar = new SingleBar({
@@ -89,10 +150,12 @@ export async function calcWorkbook(input: string, metadata: CustomFunctionsMetad
     });
   } finally {
     bar?.stop();
-    engine.destroy();
+    evaluation?.engine.destroy();
   }
+  const { report, edits } = evaluation;
 
-  await writeAtomically(output, (tmp) => wb.xlsx.writeFile(tmp));
+  const bytes = await writePackage(book, edits);
+  await writeAtomically(output, async (tmp) => writeFileSync(tmp, bytes));
   return { input, output, report, seconds: (Date.now() - started) / 1000 };
 }
 
@@ -121,6 +184,7 @@ export function formatSummary(r: CalcResult, maxListed = 8): string {
     lines.push(`    ${where.padEnd(14)} ${e.code.padEnd(8)} ${message.length > 90 ? `${message.slice(0, 87)}...` : message}`);
   }
   if (own.length > maxListed) lines.push(`    ... and ${own.length - maxListed} more`);
+  for (const note of report.notes ?? []) lines.push(`  note       ${note}`);
   lines.push(`  time       ${r.seconds.toFixed(2)} s`);
   return `${lines.join('\n')}\n`;
 }

@@ -5,7 +5,6 @@
  */
 import { readFileSync } from 'fs';
 import { parse } from 'csv-parse/sync';
-import ExcelJS from 'exceljs';
 import { DetailedCellError } from 'hyperformula';
 import type { HyperFormula } from 'hyperformula';
 import { numberText } from '../functions/cells';
@@ -13,7 +12,7 @@ import type { CardGrid } from './diagram';
 import type { CustomFunctionsMetadata } from './engine';
 import { evaluateFormulas } from './evaluate';
 import { buildMixgapEngine } from './mixgap-engine';
-import { a1, evaluateWorkbook, parseRange, WORKBOOK_ENGINE_CONFIG } from './workbook';
+import { a1, evaluateWorkbook, parseRange, readWorkbook, WORKBOOK_ENGINE_CONFIG } from './workbook';
 
 /** A CSV cell: a number when it reads as one, otherwise the text; an empty cell is null. */
 function csvValue(text: string): string | number | null {
@@ -67,16 +66,14 @@ export function cardFromCsv(file: string, metadata: CustomFunctionsMetadata): Ca
  * or Sheet!A1:B8; `sheet` (default: the first sheet) applies when the range names none.
  */
 export async function cardFromXlsx(file: string, metadata: CustomFunctionsMetadata, range: string, sheet?: string): Promise<CardSource> {
-  const wb = new ExcelJS.Workbook();
-  await wb.xlsx.readFile(file);
+  const wb = await readWorkbook(file);
   const bang = range.lastIndexOf('!');
-  let sheetName = bang >= 0 ? range.slice(0, bang).replace(/^'(.*)'$/, '$1').replace(/''/g, "'") : sheet ?? wb.worksheets[0]?.name;
+  let sheetName = bang >= 0 ? range.slice(0, bang).replace(/^'(.*)'$/, '$1').replace(/''/g, "'") : sheet ?? wb.sheets[0]?.name;
   const cells = bang >= 0 ? range.slice(bang + 1) : range;
-  const ws = wb.worksheets.find((w) => w.name.toLowerCase() === String(sheetName).toLowerCase());
-  if (!ws) throw new Error(`${file} has no sheet "${sheetName}" (sheets: ${wb.worksheets.map((w) => w.name).join(', ')})`);
+  const ws = wb.sheets.find((w) => w.name.toLowerCase() === String(sheetName).toLowerCase());
+  if (!ws) throw new Error(`${file} has no sheet "${sheetName}" (sheets: ${wb.sheets.map((w) => w.name).join(', ')})`);
   sheetName = ws.name;
-  const engine = buildMixgapEngine(metadata, WORKBOOK_ENGINE_CONFIG);
-  await evaluateWorkbook(wb, engine);
+  const { engine } = await evaluateWorkbook(wb, (content) => buildMixgapEngine(metadata, WORKBOOK_ENGINE_CONFIG, content));
   const r = parseRange(cells);
   const sheetId = engine.getSheetId(sheetName)!;
   const grid: CardGrid = [];

@@ -78,7 +78,8 @@ opens with numbers in place in any spreadsheet program. WORKBOOK itself is never
 Output: -o FILE.xlsx, or -o FOLDER (created if needed) for FOLDER/<name>.computed.xlsx;
 default <name>.computed.xlsx beside WORKBOOK. The copy is written to a temporary file in the same
 folder and renamed into place, so a run that fails leaves no partial file.
-Charts, pictures of charts, pivot tables and macros of WORKBOOK are not carried into the copy.
+Everything else of WORKBOOK (styles, comments, charts, pictures, pivot tables, names, validation,
+conditional formats, macros of an .xlsm, whose copy is an .xlsm) is copied unchanged.
 
 Exit status: 0 when the copy was written (even if some cells show errors), 1 otherwise.`;
 

@@ -6,8 +6,9 @@ import type { ConfigParams, HyperFormula } from 'hyperformula';
 import * as fns from '../functions/index';
 import { spillShape } from '../functions/shapes';
 import { buildEngine } from './engine';
-import type { CustomFunctionsMetadata } from './engine';
+import type { CustomFunctionsMetadata, EngineContent } from './engine';
 
-export function buildMixgapEngine(metadata: CustomFunctionsMetadata, config: Partial<ConfigParams> = {}): HyperFormula {
-  return buildEngine(metadata, fns as Record<string, unknown>, spillShape, config);
+/** The engine with the real functions; with `content`, built from those sheets and names at once. */
+export function buildMixgapEngine(metadata: CustomFunctionsMetadata, config: Partial<ConfigParams> = {}, content?: EngineContent): HyperFormula {
+  return buildEngine(metadata, fns as Record<string, unknown>, spillShape, config, content);
 }

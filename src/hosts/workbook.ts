@@ -1,16 +1,24 @@
 /**
- * A whole .xlsx workbook in the embedded engine: every sheet of an ExcelJS workbook becomes a sheet
- * of a HyperFormula engine (values, formulas, defined names), the engine evaluates every formula,
- * and the results go back into the ExcelJS workbook as cached values beside the formulas.
+ * A whole workbook in the embedded engine: every worksheet of an .xlsx package (./xlsx-package)
+ * becomes a sheet of a HyperFormula engine (values, formulas, defined names), the engine evaluates
+ * every formula, and the results come back as edits of the package's cells: each formula cell gets
+ * its computed value, and a spilled result fills the cells it covers.
  *
  * Wiring only: what a formula computes is the engine's business (and, for MIXGAP.* functions, the
  * cell functions'); this file moves cells between the two and reports what happened.
  */
-import ExcelJS from 'exceljs';
+import { readFileSync } from 'fs';
 import { DetailedCellError } from 'hyperformula';
-import type { HyperFormula, RawCellContent, SimpleCellAddress } from 'hyperformula';
+import type { ConfigParams, HyperFormula, RawCellContent, SerializedNamedExpression, Sheets, SimpleCellAddress } from 'hyperformula';
+import { a1, a1Range, parseRange } from './a1';
 import { NAMESPACE } from './engine';
+import type { EngineContent } from './engine';
 import { fallbackMessages, lowerExponents } from './evaluate';
+import { readPackage } from './xlsx-package';
+import type { CellEdit, FileCell, FileValue, WorkbookEdits, WorkbookPackage } from './xlsx-package';
+
+// The address helpers live in ./a1; re-exported for the modules that import them from here.
+export { a1, columnName, parseA1, parseRange, quoteSheet } from './a1';
 
 /** One formula cell of the workbook. */
 interface FormulaCell {
@@ -18,7 +26,7 @@ interface FormulaCell {
   sheetId: number;
   row: number; // 0-based
   col: number; // 0-based
-  /** The formula as the file stores it (no leading "="), written back unchanged. */
+  /** The formula as the file stores it (no leading "="). */
   text: string;
 }
 
@@ -45,6 +53,26 @@ export interface WorkbookReport {
   spilledCells: number;
   /** Every cell (formula or spilled) that shows an error. */
   errors: CellErrorReport[];
+  /** What the copy carries over as it was although it may show older numbers (charts' caches, ...). */
+  notes: string[];
+}
+
+/**
+ * What `calc` keeps byte for byte but cannot bring up to date: parts that hold their own copy of
+ * cell values (charts, pivot caches), and what-if data tables, which the engine does not compute.
+ */
+function carriedNotes(book: WorkbookPackage): string[] {
+  const parts = Object.keys(book.zip.files);
+  const count = (re: RegExp) => parts.filter((p) => re.test(p)).length;
+  const notes: string[] = [];
+  const charts = count(/^xl\/charts\/chart[^/]*\.xml$/i);
+  if (charts) notes.push(`${charts} chart${charts > 1 ? 's' : ''} carried over as ${charts > 1 ? 'they were' : 'it was'}: ${charts > 1 ? 'their' : 'its'} cached series show the input's numbers until the spreadsheet program refreshes them`);
+  const pivots = count(/^xl\/pivotCache\/pivotCacheDefinition[^/]*\.xml$/i);
+  if (pivots) notes.push(`${pivots} pivot cache${pivots > 1 ? 's' : ''} carried over as ${pivots > 1 ? 'they were' : 'it was'}: pivot tables show the input's numbers until refreshed`);
+  let tables = 0;
+  for (const sheet of book.sheets) for (const row of sheet.rows) for (const cell of row.cells) if (cell.formula?.kind === 'dataTable') tables++;
+  if (tables) notes.push(`${tables} what-if data table formula${tables > 1 ? 's' : ''} not computed: ${tables > 1 ? 'their' : 'its'} cells keep their values`);
+  return notes;
 }
 
 /** Called while formulas are evaluated: how many of how many are done. */
@@ -69,42 +97,9 @@ const FILE_ERROR: Record<string, string> = {
   '#LIC!': '#VALUE!',
 };
 
-/** The error value ExcelJS writes for an engine error code. */
-export function fileError(code: string): ExcelJS.CellErrorValue {
-  return { error: (FILE_ERROR[code] ?? '#VALUE!') as ExcelJS.CellErrorValue['error'] };
-}
-
-/** Column letters of a 0-based column index (0 -> A, 26 -> AA). */
-export function columnName(col: number): string {
-  let s = '';
-  for (let n = col + 1; n > 0; n = Math.floor((n - 1) / 26)) s = String.fromCharCode(65 + ((n - 1) % 26)) + s;
-  return s;
-}
-
-/** A1-style address of 0-based row and column. */
-export function a1(row: number, col: number): string {
-  return `${columnName(col)}${row + 1}`;
-}
-
-/** 0-based row and column of an A1-style address ($ allowed). */
-export function parseA1(address: string): { row: number; col: number } {
-  const m = /^\$?([A-Za-z]{1,3})\$?(\d+)$/.exec(address.trim());
-  if (!m) throw new Error(`"${address}" is not a cell address such as B12`);
-  let col = 0;
-  for (const ch of m[1].toUpperCase()) col = col * 26 + (ch.charCodeAt(0) - 64);
-  return { row: Number(m[2]) - 1, col: col - 1 };
-}
-
-/** Rows and columns of an A1-style range such as A1:B6 (a single cell is a 1x1 range). */
-export function parseRange(range: string): { top: number; left: number; bottom: number; right: number } {
-  const [from, to = from] = range.split(':');
-  const a = parseA1(from), b = parseA1(to);
-  return { top: Math.min(a.row, b.row), left: Math.min(a.col, b.col), bottom: Math.max(a.row, b.row), right: Math.max(a.col, b.col) };
-}
-
-/** A sheet name as a formula writes it: quoted unless it is a plain identifier. */
-export function quoteSheet(name: string): string {
-  return /^[A-Za-z_][A-Za-z0-9_.]*$/.test(name) ? name : `'${name.replace(/'/g, "''")}'`;
+/** The value a file stores for an engine error code. */
+export function fileError(code: string): { error: string } {
+  return { error: FILE_ERROR[code] ?? '#VALUE!' };
 }
 
 /**
@@ -121,39 +116,47 @@ export function engineFormula(text: string): string {
 }
 
 /** Days since 1899-12-30 (or 1904-01-01): the number a spreadsheet stores for a date. */
-function serialOf(date: Date, date1904: boolean): number {
+function serialOf(iso: string, date1904: boolean): number | undefined {
+  const time = Date.parse(/[zZ]|[+-]\d\d:\d\d$/.test(iso) ? iso : `${iso}Z`);
+  if (Number.isNaN(time)) return undefined;
   const epoch = date1904 ? Date.UTC(1904, 0, 1) : Date.UTC(1899, 11, 30);
-  return (date.getTime() - epoch) / 86400000;
+  return (time - epoch) / 86400000;
 }
 
-/** What the engine gets for a cell that is not a formula. */
-function rawContent(cell: ExcelJS.Cell, date1904: boolean): RawCellContent {
+/** What the engine gets for a cell of the file that is not a formula (null: nothing). */
+function rawContent(cell: FileCell, sharedStrings: string[], date1904: boolean): RawCellContent {
   const v = cell.value;
+  // The leading apostrophe keeps text as text ("123", "=x" and "TRUE" stay strings).
   switch (cell.type) {
-    case ExcelJS.ValueType.Number:
-      return v as number;
-    case ExcelJS.ValueType.Boolean:
-      return v as boolean;
-    case ExcelJS.ValueType.Date:
-      return serialOf(v as Date, date1904);
-    case ExcelJS.ValueType.Error:
-      return (v as ExcelJS.CellErrorValue).error; // the engine reads "#N/A" as that error
-    case ExcelJS.ValueType.String:
-    case ExcelJS.ValueType.RichText:
-    case ExcelJS.ValueType.Hyperlink:
-    case ExcelJS.ValueType.SharedString:
-      // The leading apostrophe keeps text as text ("123", "=x" and "TRUE" stay strings).
-      return `'${cell.text}`;
-    default:
-      return null;
+    case 's': {
+      const text = sharedStrings[Number(v)];
+      return text === undefined ? null : `'${text}`;
+    }
+    case 'inlineStr':
+      return cell.inline !== undefined ? `'${cell.inline}` : v !== undefined ? `'${v}` : null;
+    case 'str':
+      return v === undefined ? null : `'${v}`;
+    case 'b':
+      return v === undefined ? null : v.trim() === '1' || v.trim().toLowerCase() === 'true';
+    case 'e':
+      return v === undefined ? null : v.trim(); // the engine reads "#N/A" as that error
+    case 'd':
+      return v === undefined ? null : serialOf(v.trim(), date1904) ?? `'${v}`;
+    default: {
+      if (v === undefined || v.trim() === '') return null;
+      const n = Number(v);
+      return Number.isFinite(n) ? n : `'${v}`;
+    }
   }
 }
 
-/** The value a formula's result cell carries in the file. */
-function fileValue(v: unknown): ExcelJS.CellValue {
+/** The value a computed cell stores in the file. */
+function fileValue(v: unknown): FileValue {
   if (v instanceof DetailedCellError) return fileError(v.value);
-  if (typeof v === 'number' || typeof v === 'string' || typeof v === 'boolean') return v;
-  return null;
+  if (typeof v === 'number') return { number: v };
+  if (typeof v === 'string') return { text: v };
+  if (typeof v === 'boolean') return { boolean: v };
+  return { empty: true };
 }
 
 /** The cells a spilled result anchored at `anchor` covers: walk right and down over array cells without formulas. */
@@ -168,127 +171,209 @@ function spillExtent(engine: HyperFormula, anchor: SimpleCellAddress): { rows: n
   return { rows, cols };
 }
 
-const yieldToEventLoop = () => new Promise<void>((resolve) => setImmediate(resolve));
+/**
+ * Why a spilled result has no room, naming the cells in the way: the engine reports only "no space",
+ * so the result is computed again in the sheet's context (not placed) to learn its size, and the
+ * cells it would cover are searched for values or formulas. Undefined when that cannot be told.
+ */
+export function spillBlockers(engine: HyperFormula, anchor: SimpleCellAddress): string | undefined {
+  const formula = engine.getCellFormula(anchor);
+  if (!formula) return undefined;
+  let result: unknown;
+  try {
+    result = engine.calculateFormula(formula, anchor.sheet);
+  } catch {
+    return undefined;
+  }
+  if (!Array.isArray(result) || result.length === 0) return undefined;
+  const rows = result.length, cols = Math.max(...(result as unknown[][]).map((r) => r.length));
+  const blockers: string[] = [];
+  for (let i = 0; i < rows; i++) {
+    for (let j = 0; j < cols; j++) {
+      if (i === 0 && j === 0) continue;
+      const at = { sheet: anchor.sheet, row: anchor.row + i, col: anchor.col + j };
+      if (!engine.isCellEmpty(at)) blockers.push(a1(at.row, at.col));
+    }
+  }
+  if (blockers.length === 0) return undefined;
+  const range = a1Range(anchor.row, anchor.col, anchor.row + rows - 1, anchor.col + cols - 1);
+  const listed = blockers.length > 3 ? `${blockers.slice(0, 3).join(', ')} and ${blockers.length - 3} more cells are` : blockers.length > 1 ? `${blockers.join(', ')} are` : `${blockers[0]} is`;
+  return `no room for the spilled result (${range}): ${listed} not empty; clear ${blockers.length > 1 ? 'them' : 'it'} or move the formula`;
+}
+
+/** Reads the workbook package at `file` (.xlsx or .xlsm). */
+export async function readWorkbook(file: string): Promise<WorkbookPackage> {
+  return readPackage(readFileSync(file), file);
+}
+
+/** What an evaluation gives: the summary, the cells of the package to change, and the engine. */
+export interface Evaluation {
+  report: WorkbookReport;
+  edits: WorkbookEdits;
+  /** The engine with the workbook loaded and evaluated (the caller destroys it). */
+  engine: HyperFormula;
+}
+
+/** Builds an engine from whole sheets and names at once (buildMixgapEngine with WORKBOOK_ENGINE_CONFIG). */
+export type WorkbookEngineFactory = (content: EngineContent) => HyperFormula;
 
 /**
- * Evaluates every formula of `wb` with `engine` (a fresh engine from buildMixgapEngine, with
- * room for the workbook's rows and columns) and stores each result in `wb`:
+ * Evaluates every formula of `book` in an engine built by `build` from the whole workbook at once
+ * (sheets and names in one go: the engine's bulk path, with no undo history and one evaluation),
+ * and returns the summary and the edits that store the results:
  *   - a formula cell keeps its formula and gets its computed value;
  *   - a spilled result fills the cells it covers with plain values; its anchor keeps the formula,
- *     written as an array formula over the covered range so spreadsheet programs show the whole table;
+ *     stored as an array formula over the covered range so spreadsheet programs show the whole table;
  *   - an error is stored as an error value.
  * The cells an array formula of the input covered (cached values of an earlier run or of a
- * spreadsheet program) are emptied first, so they never block the new result.
+ * spreadsheet program) are left out of the engine, so they never block the new result, and are
+ * emptied in the copy when no result fills them any more.
  */
 export async function evaluateWorkbook(
-  wb: ExcelJS.Workbook,
-  engine: HyperFormula,
+  book: WorkbookPackage,
+  build: WorkbookEngineFactory,
   onProgress?: ProgressListener,
-): Promise<WorkbookReport> {
-  const date1904 = !!wb.properties?.date1904;
-  const sheets = wb.worksheets.map((ws) => ws.name);
+): Promise<Evaluation> {
+  const sheets = book.sheets.map((s) => s.name);
   const formulas: FormulaCell[] = [];
-  /** Per sheet: cells of array ranges of the input (other than their anchors), as "row,col". */
-  const arrayCells = new Map<string, Set<string>>();
+  /** Per sheet: cells of array ranges of the input (other than their anchors), as row * 16384 + col. */
+  const arrayCells = new Map<string, Set<number>>();
+  const key = (row: number, col: number) => row * 16384 + col;
 
-  // Sheets and plain values first, in one batch: nothing is evaluated yet.
-  engine.batch(() => {
-    for (const ws of wb.worksheets) engine.addSheet(ws.name);
-    for (const ws of wb.worksheets) {
-      const sheetId = engine.getSheetId(ws.name)!;
-      const covered = new Set<string>();
-      ws.eachRow({ includeEmpty: false }, (row) => {
-        row.eachCell({ includeEmpty: false }, (cell) => {
-          if (cell.type !== ExcelJS.ValueType.Formula) return;
-          const model = cell.model as { shareType?: string; ref?: string };
-          if (model.shareType !== 'array' || !model.ref) return;
-          const r = parseRange(model.ref);
-          for (let i = r.top; i <= r.bottom; i++) {
-            for (let j = r.left; j <= r.right; j++) if (i !== Number(row.number) - 1 || j !== Number(cell.col) - 1) covered.add(`${i},${j}`);
-          }
-        });
-      });
-      arrayCells.set(ws.name, covered);
-      ws.eachRow({ includeEmpty: false }, (row) => {
-        row.eachCell({ includeEmpty: false }, (cell) => {
-          const r = Number(row.number) - 1, c = Number(cell.col) - 1;
-          if (cell.type === ExcelJS.ValueType.Merge || covered.has(`${r},${c}`)) return;
-          if (cell.type === ExcelJS.ValueType.Formula) {
-            const text = cell.formula;
-            if (text) formulas.push({ sheet: ws.name, sheetId, row: r, col: c, text });
-            return;
-          }
-          const content = rawContent(cell, date1904);
-          if (content !== null) engine.setCellContents({ sheet: sheetId, row: r, col: c }, [[content]]);
-        });
-      });
+  const content: Sheets = {};
+  book.sheets.forEach((sheet) => {
+    const covered = new Set<number>();
+    for (const row of sheet.rows) {
+      for (const cell of row.cells) {
+        const f = cell.formula;
+        if (f?.kind !== 'array' || !f.ref) continue;
+        let r;
+        try { r = parseRange(f.ref); } catch { continue; }
+        for (let i = r.top; i <= r.bottom; i++) {
+          for (let j = r.left; j <= r.right; j++) if (i !== cell.row || j !== cell.col) covered.add(key(i, j));
+        }
+      }
     }
-    // Workbook-level names that stand for one cell or range (print areas and the like excluded).
-    for (const { name, ranges } of (wb.definedNames as unknown as { model: Array<{ name: string; ranges: string[]; localSheetId?: number }> }).model) {
-      if (ranges.length !== 1 || name.startsWith('_xlnm') || name.startsWith('_xl')) continue;
-      if (engine.isItPossibleToAddNamedExpression(name, `=${ranges[0]}`)) engine.addNamedExpression(name, `=${ranges[0]}`);
+    arrayCells.set(sheet.name, covered);
+    const grid: RawCellContent[][] = [];
+    for (const row of sheet.rows) {
+      for (const cell of row.cells) {
+        if (covered.has(key(cell.row, cell.col))) continue;
+        const f = cell.formula;
+        let value: RawCellContent;
+        if (f && f.text && f.kind !== 'dataTable') {
+          formulas.push({ sheet: sheet.name, sheetId: -1, row: cell.row, col: cell.col, text: f.text });
+          value = engineFormula(f.text);
+        } else {
+          value = rawContent(cell, book.sharedStrings, book.date1904);
+          if (value === null) continue;
+        }
+        (grid[cell.row] ??= [])[cell.col] = value;
+      }
     }
+    // The engine wants whole rows: no holes (empty rows and cells are null).
+    for (let r = 0; r < grid.length; r++) {
+      const row = (grid[r] ??= []);
+      for (let c = 0; c < row.length; c++) if (row[c] === undefined) row[c] = null;
+    }
+    content[sheet.name] = grid;
   });
 
-  // Formulas in chunks, each chunk one batch, so progress can be shown. A formula whose inputs come
-  // in a later chunk is evaluated again then: the engine keeps every result consistent.
-  const chunk = Math.max(1, Math.ceil(formulas.length / 100));
-  for (let i = 0; i < formulas.length; i += chunk) {
-    engine.batch(() => {
-      for (const f of formulas.slice(i, i + chunk)) {
-        engine.setCellContents({ sheet: f.sheetId, row: f.row, col: f.col }, [[engineFormula(f.text)]]);
-      }
-    });
-    await onProgress?.(Math.min(i + chunk, formulas.length), formulas.length);
-    await yieldToEventLoop();
+  // Defined names that stand for a cell, a range or a formula (print areas and the like excluded).
+  // The engine numbers sheets in the order of the object's keys (where a name such as "2024" comes
+  // first): scopes follow that order, and sheet ids are asked of the engine once it is built.
+  const order = Object.keys(content);
+  const names: SerializedNamedExpression[] = [];
+  for (const { name, text, localSheet } of book.names) {
+    if (!name || name.startsWith('_xl') || !text) continue;
+    const sheetName = localSheet !== undefined ? book.sheetNames[localSheet] : undefined;
+    const scope = sheetName !== undefined ? order.indexOf(sheetName) : undefined;
+    if (localSheet !== undefined && (scope === undefined || scope < 0)) continue;
+    names.push({ name, expression: engineFormula(text), ...(scope !== undefined ? { scope } : {}) });
   }
 
-  // Results back into the workbook.
-  const report: WorkbookReport = { sheets, formulas: formulas.length, spills: 0, spilledCells: 0, errors: [] };
-  const filled = new Map<string, Set<string>>(sheets.map((s) => [s, new Set<string>()]));
+  await onProgress?.(0, formulas.length);
+  let engine: HyperFormula;
+  try {
+    engine = build({ sheets: content, names });
+  } catch {
+    // A name the engine does not accept (it refuses the whole list): load without names, then
+    // add the ones it takes, one by one.
+    engine = build({ sheets: content });
+    engine.batch(() => {
+      for (const n of names) {
+        if (engine.isItPossibleToAddNamedExpression(n.name, n.expression, n.scope)) engine.addNamedExpression(n.name, n.expression, n.scope);
+      }
+    });
+  }
+  await onProgress?.(formulas.length, formulas.length);
+  for (const f of formulas) f.sheetId = engine.getSheetId(f.sheet)!;
+
+  // Results, as edits of the package's cells.
+  const report: WorkbookReport = { sheets, formulas: formulas.length, spills: 0, spilledCells: 0, errors: [], notes: carriedNotes(book) };
+  const edits: WorkbookEdits = new Map(sheets.map((s) => [s, new Map<number, Map<number, CellEdit>>()]));
+  const setEdit = (sheet: string, row: number, col: number, edit: CellEdit) => {
+    const rows = edits.get(sheet)!;
+    let cols = rows.get(row);
+    if (!cols) rows.set(row, (cols = new Map()));
+    cols.set(col, edit);
+  };
+  const filled = new Map<string, Set<number>>(sheets.map((s) => [s, new Set<number>()]));
   const noteError = (sheet: string, row: number, col: number, v: unknown, spilled: boolean) => {
     if (v instanceof DetailedCellError) {
       report.errors.push({ sheet, address: a1(row, col), code: v.value, message: v.message || fallbackMessages[v.value] || '', spilled });
     }
   };
   for (const f of formulas) {
-    const ws = wb.getWorksheet(f.sheet)!;
     const anchor = { sheet: f.sheetId, row: f.row, col: f.col };
     const value = engine.getCellValue(anchor);
-    noteError(f.sheet, f.row, f.col, value, false);
+    if (value instanceof DetailedCellError && value.value === '#SPILL!') {
+      const why = spillBlockers(engine, anchor);
+      if (why) report.errors.push({ sheet: f.sheet, address: a1(f.row, f.col), code: value.value, message: why, spilled: false });
+      else noteError(f.sheet, f.row, f.col, value, false);
+    } else {
+      noteError(f.sheet, f.row, f.col, value, false);
+    }
     const extent = engine.isCellPartOfArray(anchor) ? spillExtent(engine, anchor) : { rows: 1, cols: 1 };
-    const result = fileValue(value);
-    const cell = ws.getCell(f.row + 1, f.col + 1);
     if (extent.rows === 1 && extent.cols === 1) {
-      cell.value = { formula: f.text, result } as ExcelJS.CellFormulaValue;
+      setEdit(f.sheet, f.row, f.col, { value: fileValue(value) });
       continue;
     }
     report.spills++;
-    const ref = `${a1(f.row, f.col)}:${a1(f.row + extent.rows - 1, f.col + extent.cols - 1)}`;
-    cell.value = { formula: f.text, result, shareType: 'array', ref } as unknown as ExcelJS.CellFormulaValue;
+    setEdit(f.sheet, f.row, f.col, {
+      value: fileValue(value),
+      arrayRef: a1Range(f.row, f.col, f.row + extent.rows - 1, f.col + extent.cols - 1),
+    });
     for (let i = 0; i < extent.rows; i++) {
       for (let j = 0; j < extent.cols; j++) {
         if (i === 0 && j === 0) continue;
         const r = f.row + i, c = f.col + j;
         const v = engine.getCellValue({ sheet: f.sheetId, row: r, col: c });
         noteError(f.sheet, r, c, v, true);
-        ws.getCell(r + 1, c + 1).value = fileValue(v);
-        filled.get(f.sheet)!.add(`${r},${c}`);
+        setEdit(f.sheet, r, c, { value: fileValue(v) });
+        filled.get(f.sheet)!.add(key(r, c));
         report.spilledCells++;
       }
     }
   }
-  // Cached values of the input's array ranges that no result covers any more are emptied.
-  for (const [sheet, covered] of arrayCells) {
-    const ws = wb.getWorksheet(sheet)!;
-    for (const key of covered) {
-      if (filled.get(sheet)!.has(key)) continue;
-      const [r, c] = key.split(',').map(Number);
-      ws.getCell(r + 1, c + 1).value = null;
+  // Cached values of the input's array ranges that no result covers any more are emptied
+  // (cells that do not exist in the file need nothing).
+  for (const sheet of book.sheets) {
+    const covered = arrayCells.get(sheet.name)!;
+    if (covered.size === 0) continue;
+    for (const row of sheet.rows) {
+      for (const cell of row.cells) {
+        const k = key(cell.row, cell.col);
+        if (covered.has(k) && !filled.get(sheet.name)!.has(k)) setEdit(sheet.name, cell.row, cell.col, { value: { empty: true } });
+      }
     }
   }
-  return report;
+  return { report, edits, engine };
 }
 
-/** Engine settings a workbook needs: room for as many rows and columns as a spreadsheet has. */
-export const WORKBOOK_ENGINE_CONFIG = { maxRows: 1048576, maxColumns: 16384 };
+/**
+ * Engine settings a workbook needs: room for as many rows and columns as a spreadsheet has, and no
+ * undo history (a workbook is loaded once and never undone; keeping every change for undo made
+ * loading a big workbook slower than evaluating it, by far).
+ */
+export const WORKBOOK_ENGINE_CONFIG: Partial<ConfigParams> = { maxRows: 1048576, maxColumns: 16384, undoLimit: 0 };

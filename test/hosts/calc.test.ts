@@ -193,17 +193,23 @@ describe('mixgap calc on an unseen workbook', () => {
 });
 
 describe('mixgap calc failures', () => {
-  test('a spill blocked by a value shows #SPILL! in the summary and #REF! in the file', async () => {
+  test('a spill blocked by a value shows #SPILL! in the summary, naming the blocking cell, and #REF! in the file', async () => {
     const d = mkdtempSync(path.join(os.tmpdir(), 'mixgap-spill-'));
     const file = path.join(d, 'blocked.xlsx');
     const wb = new ExcelJS.Workbook();
     const ws = wb.addWorksheet('S');
     ws.getCell('A1').value = { formula: 'SEQUENCE(3)' } as ExcelJS.CellFormulaValue;
     ws.getCell('A2').value = 7;
+    const two = wb.addWorksheet('T');
+    two.getCell('A1').value = { formula: 'SEQUENCE(2,3)' } as ExcelJS.CellFormulaValue;
+    two.getCell('B1').value = 'in the way';
+    two.getCell('C2').value = { formula: '1+1' } as ExcelJS.CellFormulaValue;
     await wb.xlsx.writeFile(file);
     const r = mixgap(['calc', file, '-o', `${d}/`]);
     expect(r.status).toBe(0);
-    expect(r.stdout).toMatch(/S!A1 +#SPILL!/);
+    // The summary names the cell in the way (A2) and the range the result needs (A1:A3).
+    expect(r.stdout).toMatch(/S!A1 +#SPILL! +no room for the spilled result \(A1:A3\): A2 is not empty; clear it or move the formula/);
+    expect(r.stdout).toMatch(/T!A1 +#SPILL! +no room for the spilled result \(A1:C2\): B1, C2 are not empty; clear them/);
     const back = new ExcelJS.Workbook();
     await back.xlsx.readFile(path.join(d, 'blocked.computed.xlsx'));
     expect(cached(back.getWorksheet('S')!, 'A1')).toEqual({ error: '#REF!' });
@@ -216,8 +222,43 @@ describe('mixgap calc failures', () => {
     writeFileSync(file, 'this is not a zip file');
     const r = mixgap(['calc', file]);
     expect(r.status).toBe(1);
-    expect(r.stderr).toMatch(/^mixgap: /);
+    expect(r.stderr).toMatch(/^mixgap: .*broken\.xlsx: not an \.xlsx workbook, or damaged/);
     expect(readdirSync(d)).toEqual(['broken.xlsx']);
+  });
+
+  test('a damaged workbook (cut short) and a package of another kind say the same, and what they are', async () => {
+    const d = mkdtempSync(path.join(os.tmpdir(), 'mixgap-damaged-'));
+    const whole = readFileSync(input);
+    writeFileSync(path.join(d, 'cut.xlsx'), whole.subarray(0, Math.floor(whole.length / 2)));
+    const JSZip = (await import('jszip')).default;
+    const doc = new JSZip(); // the skeleton of a text document: a package, but not a workbook
+    doc.file('_rels/.rels', '<Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships"><Relationship Id="rId1" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/officeDocument" Target="word/document.xml"/></Relationships>');
+    doc.file('word/document.xml', '<w:document xmlns:w="http://schemas.openxmlformats.org/wordprocessingml/2006/main"><w:body/></w:document>');
+    writeFileSync(path.join(d, 'letter.xlsx'), await doc.generateAsync({ type: 'nodebuffer' }));
+    for (const name of ['cut.xlsx', 'letter.xlsx']) {
+      const r = mixgap(['calc', path.join(d, name)]);
+      expect(r.status, name).toBe(1);
+      expect(r.stderr, name).toMatch(new RegExp(`${name.replace('.', '\\.')}: not an \\.xlsx workbook, or damaged`));
+    }
+    expect(readdirSync(d).sort()).toEqual(['cut.xlsx', 'letter.xlsx']);
+  });
+
+  test('an output folder that cannot be written is named (not a temporary file)', () => {
+    const d = mkdtempSync(path.join(os.tmpdir(), 'mixgap-nowrite-'));
+    const blocker = path.join(d, 'results');
+    writeFileSync(blocker, 'a file where a folder should be');
+    const r = mixgap(['calc', input, '-o', path.join(blocker, 'run7', 'out.xlsx')]);
+    expect(r.status).toBe(1);
+    expect(r.stderr).toContain(`cannot write to ${path.join(blocker, 'run7')}`);
+    expect(r.stderr).not.toMatch(/\.tmp/);
+  });
+
+  test('an output format calc does not write is refused, naming the ones it does', () => {
+    const d = mkdtempSync(path.join(os.tmpdir(), 'mixgap-csv-'));
+    const r = mixgap(['calc', input, '-o', path.join(d, 'out.csv')]);
+    expect(r.status).toBe(1);
+    expect(r.stderr).toMatch(/out\.csv: mixgap calc writes \.xlsx \(\.xlsm for a workbook with macros\)/);
+    expect(readdirSync(d)).toEqual([]);
   });
 
   test('refuses to write over its input', () => {

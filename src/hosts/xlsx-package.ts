@@ -1,0 +1,502 @@
+/**
+ * An .xlsx (or .xlsm) package read and patched in place. An xlsx is a zip of XML parts; this module
+ * reads the few parts that hold cells (the workbook part, its relationships, the shared strings and
+ * each worksheet), and writes a copy in which only the cells given are changed: every other part
+ * (styles, comments, drawings, charts, pivot tables, macros, ...) and every other byte of the
+ * worksheets is copied as it was. Knows nothing of formulas' meaning or of the engine.
+ */
+import path from 'path';
+import JSZip from 'jszip';
+import { a1, parseA1, parseRange, slider } from './a1';
+import { attribute, encodeXstring, runText, tags, unescapeXml } from './xml';
+import type { Tag } from './xml';
+
+/** The input is not a workbook package (not a zip, or a zip without a readable workbook part). */
+export class NotAWorkbookError extends Error {}
+
+/** A formula as a cell of the file stores it. */
+export interface FileFormula {
+  /** As written (no leading "="); for a cell of a shared formula, moved to this cell. */
+  text: string;
+  /** `normal`, `array` (a range computed by one formula), `shared` (one text for a block) or `dataTable`. */
+  kind: string;
+  /** The range of an array formula. */
+  ref?: string;
+}
+
+/** One cell element of a worksheet, with where it sits in the part's text. */
+export interface FileCell {
+  row: number; // 0-based
+  col: number; // 0-based
+  start: number;
+  end: number;
+  /** Qualified tag name (`c`, or `x:c` in a prefixed part). */
+  tag: string;
+  /** Whether the tag carries its own `r`. */
+  hasRef: boolean;
+  /** The `t` attribute: s, str, inlineStr, b, e, n, d; undefined is a number. */
+  type?: string;
+  /** Text of the `v` element (unescaped), undefined when there is none. */
+  value?: string;
+  /** Text of an inline string (`is`). */
+  inline?: string;
+  formula?: FileFormula;
+  /** Child elements: local name and offsets, in order. */
+  children: Array<{ local: string; start: number; end: number; attrText: string; tag: string }>;
+}
+
+interface FileRow {
+  row: number; // 0-based
+  start: number;
+  /** End of the start tag (the whole element when self-closing). */
+  openEnd: number;
+  end: number;
+  selfClosing: boolean;
+  tag: string;
+  cells: FileCell[];
+}
+
+/** One worksheet part. */
+export interface SheetPart {
+  name: string;
+  /** Path of the part inside the zip, e.g. xl/worksheets/sheet1.xml. */
+  path: string;
+  xml: string;
+  rows: FileRow[];
+  /** Namespace prefix of the sheet's elements (`` or `x:`). */
+  prefix: string;
+  sheetData: { start: number; openEnd: number; end: number; selfClosing: boolean };
+  dimension?: { start: number; end: number; attrText: string };
+}
+
+/** A defined name of the workbook. */
+export interface DefinedName {
+  name: string;
+  /** Its formula, as written. */
+  text: string;
+  /** Index of the sheet it belongs to (into `sheetNames`), or undefined for a workbook-wide name. */
+  localSheet?: number;
+}
+
+export interface WorkbookPackage {
+  zip: JSZip;
+  /** Worksheets, in the workbook's order (chart sheets and others left out). */
+  sheets: SheetPart[];
+  /** Every sheet name in the workbook's order, chart sheets included (what `localSheetId` indexes). */
+  sheetNames: string[];
+  names: DefinedName[];
+  sharedStrings: string[];
+  /** True for a macro-enabled workbook (.xlsm): its copy must be one too. */
+  macroEnabled: boolean;
+  /** Dates counted from 1904-01-01 rather than 1899-12-30. */
+  date1904: boolean;
+}
+
+/** A relationship part (`_rels/x.rels`): Id -> { type, target path inside the zip }. */
+function relationships(xml: string, baseDir: string): Map<string, { type: string; target: string; external: boolean }> {
+  const out = new Map<string, { type: string; target: string; external: boolean }>();
+  for (const t of tags(xml)) {
+    if (t.local !== 'Relationship' || t.closing) continue;
+    const id = attribute(t.attrText, 'Id'), target = attribute(t.attrText, 'Target') ?? '';
+    const external = attribute(t.attrText, 'TargetMode') === 'External';
+    const resolved = target.startsWith('/') ? target.slice(1) : path.posix.normalize(path.posix.join(baseDir, target));
+    if (id) out.set(id, { type: attribute(t.attrText, 'Type') ?? '', target: resolved, external });
+  }
+  return out;
+}
+
+/** The text of a part, or undefined when the zip has none by that name (names compared case-insensitively, as packages do). */
+async function partText(zip: JSZip, name: string): Promise<string | undefined> {
+  let file = zip.file(name);
+  if (!file) {
+    const lower = name.toLowerCase();
+    const found = Object.keys(zip.files).find((k) => k.toLowerCase() === lower);
+    file = found ? zip.file(found) : null;
+  }
+  // Bytes, decoded by Node (the zip library's own UTF-8 decoder is far slower on a big sheet).
+  return file ? (await file.async('nodebuffer')).toString('utf8') : undefined;
+}
+
+function relsPath(part: string): string {
+  return path.posix.join(path.posix.dirname(part), '_rels', `${path.posix.basename(part)}.rels`);
+}
+
+/** The `si` items of a shared-strings part as plain text. */
+function parseSharedStrings(xml: string): string[] {
+  const out: string[] = [];
+  let open: Tag | undefined;
+  let depth = 0;
+  for (const t of tags(xml)) {
+    if (t.local !== 'si') continue;
+    if (t.selfClosing) { if (!open) out.push(''); continue; }
+    if (!t.closing) { if (depth++ === 0) open = t; continue; }
+    if (--depth === 0 && open) { out.push(runText(xml.slice(open.end, t.start))); open = undefined; }
+  }
+  return out;
+}
+
+/** The cells of a worksheet part. Shared formulas are moved to each cell of their block. */
+export function parseSheet(name: string, partPath: string, xml: string): SheetPart {
+  let sheetData: SheetPart['sheetData'] | undefined;
+  let dimension: SheetPart['dimension'];
+  const rows: FileRow[] = [];
+  let prefix = '';
+  for (const t of tags(xml)) {
+    if (t.local === 'dimension' && !t.closing) dimension = { start: t.start, end: t.end, attrText: t.attrText };
+    if (t.local === 'sheetData' && !t.closing) {
+      sheetData = { start: t.start, openEnd: t.end, end: t.end, selfClosing: t.selfClosing };
+      prefix = t.name.slice(0, t.name.length - t.local.length);
+      break;
+    }
+  }
+  if (!sheetData) throw new Error(`the sheet part ${partPath} has no cell data`);
+  const shared = new Map<string, { slide: (rows: number, cols: number) => string; row: number; col: number }>();
+
+  if (!sheetData.selfClosing) {
+    let row: FileRow | undefined;
+    let cell: FileCell | undefined;
+    let child: { tag: Tag; depth: number } | undefined;
+    let nextRow = 0, nextCol = 0;
+    const finishCell = (c: FileCell) => {
+      for (const ch of c.children) {
+        const inner = () => xml.slice(xml.indexOf('>', ch.start) + 1, xml.lastIndexOf('<', ch.end - 1));
+        const self = xml[ch.end - 2] === '/';
+        if (ch.local === 'v') c.value = self ? '' : unescapeXml(inner());
+        else if (ch.local === 'is') c.inline = self ? '' : runText(inner());
+        else if (ch.local === 'f') {
+          const kind = attribute(ch.attrText, 't') ?? 'normal';
+          const ref = attribute(ch.attrText, 'ref');
+          const si = attribute(ch.attrText, 'si');
+          let text = self ? '' : unescapeXml(inner());
+          if (kind === 'shared' && si !== undefined) {
+            if (text) shared.set(si, { slide: slider(text), row: c.row, col: c.col });
+            else {
+              const master = shared.get(si);
+              if (master) text = master.slide(c.row - master.row, c.col - master.col);
+            }
+          }
+          c.formula = { text, kind, ...(ref ? { ref } : {}) };
+        }
+      }
+      row!.cells.push(c);
+    };
+    for (const t of tags(xml, sheetData.openEnd)) {
+      if (cell) {
+        if (child) {
+          if (t.local === child.tag.local && !t.selfClosing) child.depth += t.closing ? -1 : 1;
+          if (child.depth === 0) {
+            cell.children.push({ local: child.tag.local, start: child.tag.start, end: t.end, attrText: child.tag.attrText, tag: child.tag.name });
+            child = undefined;
+          }
+          continue;
+        }
+        if (t.closing && t.local === 'c') {
+          cell.end = t.end;
+          finishCell(cell);
+          cell = undefined;
+        } else if (!t.closing) {
+          if (t.selfClosing) cell.children.push({ local: t.local, start: t.start, end: t.end, attrText: t.attrText, tag: t.name });
+          else child = { tag: t, depth: 1 };
+        }
+        continue;
+      }
+      if (t.local === 'sheetData' && t.closing) {
+        sheetData.end = t.end;
+        break;
+      }
+      if (t.local === 'row') {
+        if (t.closing) { if (row) row.end = t.end; row = undefined; continue; }
+        const r = attribute(t.attrText, 'r');
+        const index = r !== undefined ? Number(r) - 1 : nextRow;
+        nextRow = index + 1;
+        nextCol = 0;
+        row = { row: index, start: t.start, openEnd: t.end, end: t.end, selfClosing: t.selfClosing, tag: t.name, cells: [] };
+        rows.push(row);
+        if (t.selfClosing) row = undefined;
+        continue;
+      }
+      if (t.local === 'c' && !t.closing && row) {
+        const r = attribute(t.attrText, 'r');
+        const at = r !== undefined ? parseA1(r) : { row: row.row, col: nextCol };
+        nextCol = at.col + 1;
+        const c: FileCell = {
+          row: row.row, col: at.col, start: t.start, end: t.end, tag: t.name, hasRef: r !== undefined,
+          type: attribute(t.attrText, 't'), children: [],
+        };
+        if (t.selfClosing) finishCell(c);
+        else cell = c;
+      }
+    }
+  }
+  return { name, path: partPath, xml, rows, prefix, sheetData, dimension };
+}
+
+/** Reads the package in `data`; `label` names it in messages. */
+export async function readPackage(data: Buffer | Uint8Array, label: string): Promise<WorkbookPackage> {
+  try {
+    return await readParts(data, label);
+  } catch (e) {
+    if (e instanceof NotAWorkbookError) throw e;
+    // A zip whose entries do not inflate, or parts that are not what their names say.
+    throw new NotAWorkbookError(`${label}: not an .xlsx workbook, or damaged (${(e as Error).message})`);
+  }
+}
+
+async function readParts(data: Buffer | Uint8Array, label: string): Promise<WorkbookPackage> {
+  const fail = (why: string) => new NotAWorkbookError(`${label}: not an .xlsx workbook, or damaged (${why})`);
+  // An OLE compound file: the older binary .xls format, or an .xlsx protected with a password.
+  const ole = data.length >= 8 && [0xd0, 0xcf, 0x11, 0xe0, 0xa1, 0xb1, 0x1a, 0xe1].every((b, i) => data[i] === b);
+  if (ole) throw fail('this is an .xls file of the older binary format, or a workbook protected with a password: save it as an .xlsx without a password first');
+  let zip: JSZip;
+  try {
+    zip = await JSZip.loadAsync(data);
+  } catch {
+    throw fail('not a zip package: cut short, or a file of another kind');
+  }
+  const rootRels = await partText(zip, '_rels/.rels');
+  if (rootRels === undefined) throw fail('no _rels/.rels part');
+  const main = [...relationships(rootRels, '').values()].find((r) => r.type.endsWith('/officeDocument'));
+  if (!main) throw fail('no workbook part');
+  const workbookXml = await partText(zip, main.target);
+  if (workbookXml === undefined) throw fail(`no ${main.target} part`);
+  const rootElement = tags(workbookXml).next().value;
+  if (!rootElement || rootElement.local !== 'workbook') throw fail(`its main part ${main.target} is not a workbook (a document of another kind?)`);
+  const rels = relationships((await partText(zip, relsPath(main.target))) ?? '', path.posix.dirname(main.target));
+
+  const types = (await partText(zip, '[Content_Types].xml')) ?? '';
+  let macroEnabled = false;
+  for (const t of tags(types)) {
+    if (t.local === 'Override' && attribute(t.attrText, 'PartName')?.replace(/^\//, '').toLowerCase() === main.target.toLowerCase()) {
+      macroEnabled = /macroEnabled/i.test(attribute(t.attrText, 'ContentType') ?? '');
+    }
+  }
+  if (!macroEnabled) macroEnabled = Object.keys(zip.files).some((k) => /vbaProject\.bin$/i.test(k));
+
+  const sheetNames: string[] = [];
+  const sheets: SheetPart[] = [];
+  const names: DefinedName[] = [];
+  let nameOpen: Tag | undefined;
+  let date1904 = false;
+  for (const t of tags(workbookXml)) {
+    if (t.local === 'workbookPr' && !t.closing) {
+      const d = attribute(t.attrText, 'date1904');
+      date1904 = d === '1' || d === 'true';
+    } else if (t.local === 'sheet' && !t.closing) {
+      const name = attribute(t.attrText, 'name') ?? `Sheet${sheetNames.length + 1}`;
+      sheetNames.push(name);
+      const rel = rels.get(attribute(t.attrText, 'id') ?? '');
+      if (!rel || rel.external || !rel.type.endsWith('/worksheet')) continue; // chart sheets, dialog sheets, macro sheets
+      const xml = await partText(zip, rel.target);
+      if (xml === undefined) throw fail(`the sheet "${name}" has no part ${rel.target}`);
+      sheets.push(parseSheet(name, rel.target, xml));
+    } else if (t.local === 'definedName') {
+      if (!t.closing && !t.selfClosing) nameOpen = t;
+      else if (t.closing && nameOpen) {
+        const local = attribute(nameOpen.attrText, 'localSheetId');
+        names.push({
+          name: attribute(nameOpen.attrText, 'name') ?? '',
+          text: unescapeXml(workbookXml.slice(nameOpen.end, t.start)),
+          ...(local !== undefined ? { localSheet: Number(local) } : {}),
+        });
+        nameOpen = undefined;
+      }
+    }
+  }
+  const stringsRel = [...rels.values()].find((r) => r.type.endsWith('/sharedStrings'));
+  const sharedStrings = stringsRel ? parseSharedStrings((await partText(zip, stringsRel.target)) ?? '') : [];
+  return { zip, sheets, sheetNames, names, sharedStrings, macroEnabled, date1904 };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Writing
+
+/** What a cell holds after the evaluation. */
+export type FileValue =
+  | { number: number }
+  | { text: string }
+  | { boolean: boolean }
+  | { error: string }
+  | { empty: true };
+
+/** A change to one cell: its new value, and for a formula that now spills, the range it covers. */
+export interface CellEdit {
+  value: FileValue;
+  /** For the anchor of a spilled result: the range to store on its array formula. */
+  arrayRef?: string;
+}
+
+/** Per sheet name: row -> col -> edit (0-based). */
+export type WorkbookEdits = Map<string, Map<number, Map<number, CellEdit>>>;
+
+/** `t` attribute and child elements of a value; `formula`: the cell keeps a formula. */
+function valueXml(v: FileValue, formula: boolean, p: string): { t?: string; xml: string } {
+  if ('number' in v) {
+    // Shortest text that reads back as the same double, with the capital E spreadsheet programs write.
+    if (!Number.isFinite(v.number)) return { t: 'e', xml: `<${p}v>#NUM!</${p}v>` };
+    return { xml: `<${p}v>${Object.is(v.number, -0) ? '0' : String(v.number).replace('e', 'E')}</${p}v>` };
+  }
+  if ('boolean' in v) return { t: 'b', xml: `<${p}v>${v.boolean ? 1 : 0}</${p}v>` };
+  if ('error' in v) return { t: 'e', xml: `<${p}v>${encodeXstring(v.error)}</${p}v>` };
+  if ('text' in v) {
+    if (formula) return { t: 'str', xml: `<${p}v>${encodeXstring(v.text)}</${p}v>` };
+    const space = /^\s|\s$/.test(v.text) ? ' xml:space="preserve"' : '';
+    return { t: 'inlineStr', xml: `<${p}is><${p}t${space}>${encodeXstring(v.text)}</${p}t></${p}is>` };
+  }
+  return { xml: '' };
+}
+
+/** Sets (or, with undefined, removes) one attribute in a tag's raw attribute text; the others stay as written. */
+const setAttrPatterns = new Map<string, RegExp>();
+function setAttr(attrText: string, name: string, value: string | undefined): string {
+  let re = setAttrPatterns.get(name);
+  if (!re) setAttrPatterns.set(name, (re = new RegExp(`(\\s+)${name.replace(/[.:]/g, '\\$&')}\\s*=\\s*("[^"]*"|'[^']*')`)));
+  if (value === undefined && !attrText.includes(name)) return attrText;
+  if (value === undefined) return attrText.replace(re, '');
+  if (re.test(attrText)) return attrText.replace(re, `$1${name}="${value}"`);
+  const trailing = /\s*$/.exec(attrText)![0];
+  return `${attrText.slice(0, attrText.length - trailing.length)} ${name}="${value}"${trailing}`;
+}
+
+/** The attribute text of a tag starting at `start` (between its name and `>` or `/>`). */
+function tagAttrText(xml: string, start: number, end: number): { name: string; attrText: string } {
+  const head = xml.slice(start, end);
+  const name = /^<([\w.:-]+)/.exec(head)![1];
+  const close = head.endsWith('/>') ? 2 : 1;
+  return { name, attrText: head.slice(1 + name.length, head.length - close) };
+}
+
+/** A cell element with its new value: a changed cell keeps its other attributes, formula and extensions. */
+function cellXml(sheet: SheetPart, cell: FileCell | undefined, row: number, col: number, edit: CellEdit): string {
+  const p = sheet.prefix;
+  if (!cell) {
+    const { t, xml } = valueXml(edit.value, false, p);
+    return `<${p}c r="${a1(row, col)}"${t ? ` t="${t}"` : ''}${xml ? `>${xml}</${p}c>` : '/>'}`;
+  }
+  const xmlText = sheet.xml;
+  const { name, attrText } = tagAttrText(xmlText, cell.start, xmlText.indexOf('>', cell.start) + 1);
+  const formula = cell.children.find((ch) => ch.local === 'f');
+  const cp = /^([\w.-]+:)?/.exec(cell.tag)![0];
+  const { t, xml } = valueXml(edit.value, !!formula, cp);
+  let attrs = setAttr(attrText, 't', t);
+  if (!cell.hasRef) attrs = ` r="${a1(row, col)}"${attrs}`;
+  let inner = '';
+  let placed = false;
+  for (const ch of cell.children) {
+    if (ch.local === 'v' || ch.local === 'is') continue;
+    let raw = xmlText.slice(ch.start, ch.end);
+    if (ch.local === 'f' && edit.arrayRef !== undefined) {
+      const kind = attribute(ch.attrText, 't');
+      if (kind === undefined || kind === 'normal' || kind === 'array') {
+        const openEnd = xmlText.indexOf('>', ch.start) + 1;
+        const head = tagAttrText(xmlText, ch.start, openEnd);
+        const selfClosing = xmlText[openEnd - 2] === '/';
+        const fAttrs = setAttr(setAttr(head.attrText, 't', 'array'), 'ref', edit.arrayRef);
+        raw = `<${head.name}${fAttrs}${selfClosing ? '/>' : '>'}${xmlText.slice(openEnd, ch.end)}`;
+      }
+    }
+    if (ch.local !== 'f' && !placed) { inner += xml; placed = true; }
+    inner += raw;
+    if (ch.local === 'f') { inner += xml; placed = true; }
+  }
+  if (!placed) inner += xml;
+  return inner ? `<${name}${attrs}>${inner}</${name}>` : `<${name}${attrs}/>`;
+}
+
+/** The sheet part's text with `edits` applied; everything not edited is copied as it was. */
+export function patchSheet(sheet: SheetPart, edits: Map<number, Map<number, CellEdit>>): string {
+  const { xml, prefix: p } = sheet;
+  const splices: Array<{ start: number; end: number; text: string }> = [];
+  const rowsByIndex = new Map(sheet.rows.map((r) => [r.row, r]));
+  let bounds = sheet.dimension ? dimensionBounds(attribute(sheet.dimension.attrText, 'ref')) : undefined;
+  const grow = (row: number, col: number) => {
+    if (!bounds) bounds = { top: row, left: col, bottom: row, right: col };
+    else bounds = { top: Math.min(bounds.top, row), left: Math.min(bounds.left, col), bottom: Math.max(bounds.bottom, row), right: Math.max(bounds.right, col) };
+  };
+  const newRows: Array<{ at: number; text: string }> = [];
+  const sortedRows = [...edits.keys()].sort((a, b) => a - b);
+  let rowCursor = 0; // index into sheet.rows: rows before it have a smaller row number
+  for (const r of sortedRows) {
+    const colEdits = edits.get(r)!;
+    const cols = [...colEdits.keys()].sort((a, b) => a - b);
+    const existing = rowsByIndex.get(r);
+    if (existing) {
+      const byCol = new Map(existing.cells.map((c) => [c.col, c]));
+      if (cols.every((c) => byCol.has(c))) {
+        for (const c of cols) {
+          const cell = byCol.get(c)!;
+          splices.push({ start: cell.start, end: cell.end, text: cellXml(sheet, cell, r, c, colEdits.get(c)!) });
+        }
+        continue;
+      }
+      // New cells in an existing row: the row is written again, its untouched cells as they were.
+      const all = [...new Set([...existing.cells.map((c) => c.col), ...cols])].sort((a, b) => a - b);
+      const parts = all.map((c) => {
+        const cell = byCol.get(c);
+        const edit = colEdits.get(c);
+        if (edit) { grow(r, c); return cellXml(sheet, cell, r, c, edit); }
+        const raw = xml.slice(cell!.start, cell!.end);
+        return cell!.hasRef ? raw : raw.replace(/^<([\w.:-]+)/, `<$1 r="${a1(r, c)}"`);
+      });
+      const head = tagAttrText(xml, existing.start, existing.openEnd);
+      let attrs = head.attrText;
+      if (attribute(attrs, 'spans') !== undefined) attrs = setAttr(attrs, 'spans', `${all[0] + 1}:${all[all.length - 1] + 1}`);
+      const body = existing.selfClosing ? '' : xml.slice(existing.openEnd, existing.end).replace(/<\/[\w.:-]+>$/, '');
+      // Whatever the row holds besides cells (extensions) is kept after them.
+      const rest = existing.cells.length ? body.slice(existing.cells[existing.cells.length - 1].end - existing.openEnd) : body;
+      splices.push({ start: existing.start, end: existing.end, text: `<${head.name}${attrs}>${parts.join('')}${rest}</${head.name}>` });
+      continue;
+    }
+    while (rowCursor < sheet.rows.length && sheet.rows[rowCursor].row < r) rowCursor++;
+    const at = rowCursor > 0 ? sheet.rows[rowCursor - 1].end : sheet.sheetData.openEnd;
+    const cells = cols.map((c) => { grow(r, c); return cellXml(sheet, undefined, r, c, colEdits.get(c)!); }).join('');
+    const text = `<${p}row r="${r + 1}">${cells}</${p}row>`;
+    if (sheet.sheetData.selfClosing) newRows.push({ at, text });
+    else splices.push({ start: at, end: at, text });
+  }
+  if (sheet.sheetData.selfClosing && newRows.length) {
+    const { name, attrText } = tagAttrText(xml, sheet.sheetData.start, sheet.sheetData.openEnd);
+    splices.push({ start: sheet.sheetData.start, end: sheet.sheetData.end, text: `<${name}${attrText}>${newRows.map((n) => n.text).join('')}</${name}>` });
+  }
+  if (sheet.dimension && bounds) {
+    const { name, attrText } = tagAttrText(xml, sheet.dimension.start, sheet.dimension.end);
+    const ref = bounds.top === bounds.bottom && bounds.left === bounds.right
+      ? a1(bounds.top, bounds.left)
+      : `${a1(bounds.top, bounds.left)}:${a1(bounds.bottom, bounds.right)}`;
+    if (ref !== attribute(attrText, 'ref')) splices.push({ start: sheet.dimension.start, end: sheet.dimension.end, text: `<${name}${setAttr(attrText, 'ref', ref)}/>` });
+  }
+  // By offset; at one offset, insertions (new rows, in row order) before the element that starts
+  // there. They come in that order already but for the dimension (sorted here, stably).
+  const before = (a: { start: number; end: number }, b: { start: number; end: number }) =>
+    a.start - b.start || Number(a.end > a.start) - Number(b.end > b.start);
+  let ordered = splices;
+  if (!splices.every((s, i) => i === 0 || before(splices[i - 1], s) <= 0)) {
+    ordered = splices.map((s, i) => ({ s, i })).sort((a, b) => before(a.s, b.s) || a.i - b.i).map((x) => x.s);
+  }
+  const out: string[] = [];
+  let pos = 0;
+  for (const s of ordered) {
+    out.push(xml.slice(pos, s.start), s.text);
+    pos = s.end;
+  }
+  out.push(xml.slice(pos));
+  return out.join('');
+}
+
+function dimensionBounds(ref: string | undefined): { top: number; left: number; bottom: number; right: number } | undefined {
+  try {
+    return ref ? parseRange(ref) : undefined;
+  } catch {
+    return undefined;
+  }
+}
+
+/** The package with every edited sheet patched, as the bytes of a zip; other parts are copied as they were. */
+export async function writePackage(pkg: WorkbookPackage, edits: WorkbookEdits): Promise<Buffer> {
+  for (const sheet of pkg.sheets) {
+    const sheetEdits = edits.get(sheet.name);
+    if (!sheetEdits || sheetEdits.size === 0) continue;
+    // As bytes: Node's own UTF-8 encoder is far faster than the zip library's.
+    pkg.zip.file(sheet.path, Buffer.from(patchSheet(sheet, sheetEdits), 'utf8'));
+  }
+  return pkg.zip.generateAsync({ type: 'nodebuffer', compression: 'DEFLATE', compressionOptions: { level: 3 } });
+}

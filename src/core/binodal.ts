@@ -1,4 +1,4 @@
-import { curvature, curvatureMap, curvatureSlope } from './curvature';
+import { curvature, curvatureMap, curvatureSlope, spinodalRootNear } from './curvature';
 import { fail, MixgapError } from './errors';
 import type { Isotherm, Point } from './model';
 import { logRatio, muA, pointAt, splitRatio } from './model';
@@ -48,47 +48,64 @@ export interface Branch {
  * including several at one temperature, and never returns a tangent that cuts g elsewhere.
  */
 export function phaseMap(iso: Isotherm, hint?: PhaseMap): PhaseMap {
-  const { spinodal } = curvatureMap(iso, false, hint?.spinodal);
-  const gaps: Gap[] = [];
-  const branches = spinodal.length > 0 ? convexBranches(iso, spinodal) : [];
-  if (branches.length > 1) {
-    // A nearby temperature with the same structure gives the starting points of every solve.
-    const warm = hint && hint.spinodal.length === spinodal.length && hint.gaps.length > 0 ? hint : undefined;
-    if (warm?.gaps.length === 1 && branches.length === 2 && spinodal.length === 2 && !nearCritical(iso, branches[0], branches[1])) {
-      const gap = tangentNewton(iso, warm.gaps[0], spinodal[0].u, spinodal[1].u);
-      if (gap) return { T: iso.T, gaps: [gap], spinodal };
-      branches[0].guess = warm.gaps[0].low.u;
-      branches[1].guess = warm.gaps[0].high.u;
-    }
-    let active = 0;
-    let mFrom = -Infinity;
-    while (active < branches.length - 1) {
-      let best: { m: number; k: number; nearCritical?: boolean } | undefined;
-      for (let k = active + 1; k < branches.length; k++) {
-        const j = branches[active], next = branches[k];
-        if (k === active + 1 && nearCritical(iso, j, next)) {
-          const m = 0.5 * (j.mB + next.mA);
-          if (m > mFrom && (best === undefined || m < best.m)) best = { m, k, nearCritical: true };
-          continue;
-        }
-        // With two branches only, the envelope must pass from one to the other: no need to test.
-        const sure = branches.length === 2;
-        const m = crossing(iso, j, next, mFrom, sure, warm?.gaps[gaps.length]?.slope);
-        if (m !== undefined && (best === undefined || m < best.m)) best = { m, k };
-      }
-      if (best === undefined) fail('convergence', `the common-tangent sweep lost the envelope at T = ${iso.T} K`);
-      if (best.nearCritical) {
-        gaps.push(criticalGap(iso, branches[active].b, branches[best.k].a));
-      } else {
-        const low = pointAt(solveSlope(iso, branches[active], best.m));
-        const high = pointAt(solveSlope(iso, branches[best.k], best.m));
-        gaps.push({ low, high, slope: best.m });
-      }
-      active = best.k;
-      mFrom = best.m;
-    }
+  const { spinodal } = curvatureMap(iso, false);
+  if (spinodal.length === 0) return { T: iso.T, gaps: [], spinodal };
+  // A nearby temperature with the same structure gives the starting points of every solve; the
+  // answer does not depend on it (every gap ends in canonicalGap), and when a final solve cannot
+  // be made canonical the whole sweep is done again without it.
+  const warm = hint && hint.spinodal.length === spinodal.length && hint.gaps.length > 0 ? hint : undefined;
+  const branches = convexBranches(iso, spinodal);
+  if (warm?.gaps.length === 1 && branches.length === 2 && !nearCritical(iso, branches[0], branches[1])) {
+    const estimate = tangentNewton(iso, warm.gaps[0], spinodal[0].u, spinodal[1].u);
+    const gap = estimate && canonicalGap(iso, branches[0], branches[1], estimate.low.u, estimate.high.u);
+    if (gap) return { T: iso.T, gaps: [gap], spinodal };
   }
-  return { T: iso.T, gaps, spinodal };
+  const gaps = (warm && sweep(iso, convexBranches(iso, spinodal), warm)) || sweep(iso, branches);
+  return { T: iso.T, gaps: gaps as Gap[], spinodal };
+}
+
+/**
+ * The sweep of tangent slopes over the convex branches (see phaseMap). With `warm`, the gaps of a
+ * nearby temperature start the solves, and undefined is returned if a gap's final solve cannot be
+ * made canonical (the caller sweeps again without it, so that the answer never depends on `warm`).
+ */
+function sweep(iso: Isotherm, branches: Branch[], warm?: PhaseMap): Gap[] | undefined {
+  const gaps: Gap[] = [];
+  if (branches.length < 2) return gaps;
+  if (warm?.gaps.length === 1 && branches.length === 2) {
+    branches[0].guess = warm.gaps[0].low.u;
+    branches[1].guess = warm.gaps[0].high.u;
+  }
+  let active = 0;
+  let mFrom = -Infinity;
+  while (active < branches.length - 1) {
+    let best: { m: number; k: number; nearCritical?: boolean } | undefined;
+    for (let k = active + 1; k < branches.length; k++) {
+      const j = branches[active], next = branches[k];
+      if (k === active + 1 && nearCritical(iso, j, next)) {
+        const m = 0.5 * (j.mB + next.mA);
+        if (m > mFrom && (best === undefined || m < best.m)) best = { m, k, nearCritical: true };
+        continue;
+      }
+      // With two branches only, the envelope must pass from one to the other: no need to test.
+      const sure = branches.length === 2;
+      const m = crossing(iso, j, next, mFrom, sure, warm?.gaps[gaps.length]?.slope);
+      if (m !== undefined && (best === undefined || m < best.m)) best = { m, k };
+    }
+    if (best === undefined) fail('convergence', `the common-tangent sweep lost the envelope at T = ${iso.T} K`);
+    if (best.nearCritical) {
+      gaps.push(criticalGap(iso, branches[active].b, branches[best.k].a));
+    } else {
+      const u1 = solveSlope(iso, branches[active], best.m);
+      const u2 = solveSlope(iso, branches[best.k], best.m);
+      const gap = canonicalGap(iso, branches[active], branches[best.k], u1, u2);
+      if (!gap && warm) return undefined;
+      gaps.push(gap ?? { low: pointAt(u1), high: pointAt(u2), slope: best.m });
+    }
+    active = best.k;
+    mFrom = best.m;
+  }
+  return gaps;
 }
 
 /**
@@ -114,6 +131,103 @@ function criticalGap(iso: Isotherm, s1: number, s2: number): Gap {
   if (!(xLow > 0 && xHigh < 1)) fail('convergence', `a near-critical gap next to a pure component at T = ${iso.T} K cannot be resolved`);
   const low = pointAt(logRatio(xLow)), high = pointAt(logRatio(xHigh));
   return { low, high, slope: iso.dg(c, 1 - c) };
+}
+
+/**
+ * Width of the cells in u = ln(x / y) that make a final solve canonical (an exact binary fraction,
+ * 1e-6: far wider than the rounding of any root, about 1e-15, far narrower than a branch).
+ */
+const CELL = 2 ** -20;
+
+/**
+ * The cell [i CELL, (i + 1) CELL] in which f (increasing up to rounding) changes sign, f(a) < 0 <= f(b),
+ * walked to from the cell of an estimate. The signs at cell ends are computed from the ends alone,
+ * so the cell is the same from any estimate close enough to the root; undefined if the walk does
+ * not end within 16 cells (an estimate too far off) or f is not a number.
+ */
+function signCell(f: (u: number) => number, estimate: number): { a: number; b: number; fa: number; fb: number } | undefined {
+  let i = Math.floor(estimate / CELL);
+  let fa = f(i * CELL), fb = f((i + 1) * CELL);
+  for (let walk = 0; walk < 16; walk++) {
+    if (fa < 0 && fb >= 0) return { a: i * CELL, b: (i + 1) * CELL, fa, fb };
+    if (!(fa === fa && fb === fb) || (fa >= 0 && fb < 0)) return undefined; // NaN, or not increasing
+    if (fa >= 0) { i--; fb = fa; fa = f(i * CELL); } else { i++; fa = fb; fb = f((i + 1) * CELL); }
+  }
+  return undefined;
+}
+
+/**
+ * Newton's method for f = 0 from the middle of a sign cell, kept inside it (bisection when a step
+ * leaves it): the result depends on the cell alone. `fdf` returns f and writes f' into out[0].
+ * Quadratic convergence from 1e-6: after a step below 1e-12 the error is below 1e-20.
+ */
+function cellNewton(fdf: (u: number, out: Float64Array) => number, cell: { a: number; b: number }, out: Float64Array): number | undefined {
+  let lo = cell.a, hi = cell.b, u = 0.5 * (lo + hi);
+  for (let iter = 0; iter < 60; iter++) {
+    const f = fdf(u, out);
+    if (f === 0) return u;
+    if (f < 0) lo = u; else hi = u;
+    const step = f / out[0];
+    if (Math.abs(step) <= 1e-12 * Math.max(1, Math.abs(u))) return Math.min(Math.max(u - step, lo), hi);
+    let next = u - step;
+    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
+    if (next === u) return u;
+    u = next;
+  }
+  return undefined;
+}
+const innerSlope = new Float64Array(1), outerSlope = new Float64Array(1);
+const xyCell = new Float64Array(2);
+
+/**
+ * The point of branch `br` where g' = m, the same bits from any estimate within a few cells of it:
+ * Newton from the middle of its sign cell. Undefined if that cell is not found or leaves the branch.
+ */
+function canonicalSlopePoint(iso: Isotherm, br: Branch, m: number, estimate: number): number | undefined {
+  const f = (u: number) => { splitRatio(u, xyCell); return iso.dg(xyCell[0], xyCell[1]) - m; };
+  const cell = signCell(f, estimate);
+  if (!cell || !(cell.a > br.a && cell.b < br.b)) return undefined;
+  return cellNewton((u, out) => {
+    splitRatio(u, xyCell);
+    const x = xyCell[0], y = xyCell[1];
+    out[0] = x * y * iso.d2g(x, y);
+    return iso.dg(x, y) - m;
+  }, cell, innerSlope);
+}
+
+/**
+ * The gap between branches j and k, the same bits from any estimate (u1, u2) close to it: what a
+ * warm start or the sweep found only chooses where the work starts. In u1 on branch j, with u2 on
+ * branch k where g'(u2) = g'(u1) (canonicalSlopePoint), the common tangent is the root of
+ *   G(u1) = mu_A(u1) - mu_A(u2),  dG/du1 = c1 (x2 - x1) > 0  (c = x y g''),
+ * solved by cellNewton in its sign cell. Undefined when a cell is not found (the caller keeps its
+ * own answer or solves again from scratch), or a boundary lies beyond 1e-300 (its own solve says so).
+ */
+export function canonicalGap(iso: Isotherm, j: Branch, k: Branch, u1: number, u2: number): Gap | undefined {
+  if (!(Math.abs(u1) < U_LIMIT - 1 && Math.abs(u2) < U_LIMIT - 1)) return undefined;
+  let partner = u2;
+  const G = (u: number, out?: Float64Array): number => {
+    splitRatio(u, xyCell);
+    const x1 = xyCell[0], y1 = xyCell[1];
+    const m = iso.dg(x1, y1);
+    const mu1 = iso.g(x1, y1) - x1 * m;
+    const c1 = x1 * y1 * iso.d2g(x1, y1);
+    const v = canonicalSlopePoint(iso, k, m, partner);
+    if (v === undefined) return NaN;
+    splitRatio(v, xyCell);
+    const x2 = xyCell[0], y2 = xyCell[1];
+    if (out) out[0] = c1 * (x2 - x1);
+    return mu1 - (iso.g(x2, y2) - x2 * m);
+  };
+  const cell = signCell((u) => G(u), u1);
+  if (!cell || !(cell.a > j.a && cell.b < j.b)) return undefined;
+  const root = cellNewton(G, cell, outerSlope);
+  if (root === undefined) return undefined;
+  const low = pointAt(root);
+  const slope = iso.dg(low.x, low.y);
+  const v = canonicalSlopePoint(iso, k, slope, partner);
+  if (v === undefined) return undefined;
+  return { low, high: pointAt(v), slope };
 }
 
 /**
@@ -288,17 +402,25 @@ export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
 /**
  * The phase map at a temperature next to `prev`, when the caller knows that no critical point lies
  * between the two temperatures (so no gap opens or closes and no unstable interval appears): the
- * spinodal points are followed by Newton's method on q and the gap by `tangentNewton`. Covers the
- * common cases of no gap and of one gap over one unstable interval; returns undefined (the caller
- * then solves from scratch) for anything else or when a step does not settle.
+ * spinodal points are followed by Newton's method on q and the gap by `tangentNewton`, and each
+ * then ends in the same final solve as phaseMap's (spinodalRootNear, canonicalGap), so the answer
+ * is phaseMap's, bit for bit, whatever `prev` was. Covers the common cases of no gap and of one
+ * gap over one unstable interval; returns undefined (the caller then solves from scratch) for
+ * anything else or when a step does not settle.
  */
 export function continueMap(iso: Isotherm, prev: PhaseMap): PhaseMap | undefined {
   if (prev.spinodal.length === 0 && prev.gaps.length === 0) return { T: iso.T, gaps: [], spinodal: [] };
   if (prev.spinodal.length !== 2 || prev.gaps.length !== 1) return undefined;
-  const s1 = followRoot(iso, prev.spinodal[0].u), s2 = followRoot(iso, prev.spinodal[1].u);
+  const e1 = followRoot(iso, prev.spinodal[0].u), e2 = followRoot(iso, prev.spinodal[1].u);
+  if (e1 === undefined || e2 === undefined) return undefined;
+  const s1 = spinodalRootNear(iso, e1), s2 = spinodalRootNear(iso, e2);
   if (s1 === undefined || s2 === undefined || !(s1 < s2)) return undefined;
-  const gap = tangentNewton(iso, prev.gaps[0], s1, s2);
-  return gap && { T: iso.T, gaps: [gap], spinodal: [pointAt(s1), pointAt(s2)] };
+  const spinodal = [pointAt(s1), pointAt(s2)];
+  const [j, k] = convexBranches(iso, spinodal);
+  if (nearCritical(iso, j, k)) return { T: iso.T, gaps: [criticalGap(iso, s1, s2)], spinodal };
+  const estimate = tangentNewton(iso, prev.gaps[0], s1, s2);
+  const gap = estimate && canonicalGap(iso, j, k, estimate.low.u, estimate.high.u);
+  return gap && { T: iso.T, gaps: [gap], spinodal };
 }
 
 /** A root of q = x y g''/RT near u, by Newton's method (undefined if it does not settle nearby). */

@@ -1,7 +1,7 @@
 import { fail } from './errors';
 import type { Isotherm, Point } from './model';
 import { pointAt, splitRatio } from './model';
-import { brentMin, brentRoot, newtonRoot } from './roots';
+import { brentMin, brentRoot } from './roots';
 
 /**
  * Scaled curvature q(u) = x y g''(x) / (R T) as a function of u = ln(x / y).
@@ -90,7 +90,7 @@ const RANGES = [40, 160, 700];
  * With `refineAll` false, minima that are already negative are not refined (the binodal solver
  * does not need their depth).
  */
-export function curvatureMap(iso: Isotherm, refineAll = true, near?: readonly Point[]): CurvatureMap {
+export function curvatureMap(iso: Isotherm, refineAll = true): CurvatureMap {
   for (const U of RANGES) {
     const { points, x, y } = gridFor(U);
     const n = points.length;
@@ -100,31 +100,19 @@ export function curvatureMap(iso: Isotherm, refineAll = true, near?: readonly Po
       if (Number.isNaN(q[0]) || Number.isNaN(q[n - 1])) fail('range', `the model overflows at T = ${iso.T} K: its parameters are too large for this temperature`);
       continue; // still unstable at the sampled ends: sample wider
     }
-    return analyse(iso, points, q, refineAll, near);
+    return analyse(iso, points, q, refineAll);
   }
   return fail('range', `the solution is unstable even at x = 1e-304 at T = ${iso.T} K: the parameters are too large for this temperature`);
 }
 
-/** `near`: spinodal points of a nearby temperature; a root in the same sampling cell starts Newton there. */
-function analyse(iso: Isotherm, points: Point[], q: Float64Array, refineAll: boolean, near?: readonly Point[]): CurvatureMap {
+function analyse(iso: Isotherm, points: Point[], q: Float64Array, refineAll: boolean): CurvatureMap {
   const spinodal: Point[] = [];
   const minima: CurvatureMinimum[] = [];
   const scale = Math.min(q[0], q[q.length - 1]);
   // q and dq/du at u, without Point objects (these run in root searches)
   const xy = new Float64Array(2);
-  const qdq = (u: number, out?: Float64Array) => {
-    splitRatio(u, xy);
-    if (out) out[0] = scaledCurvatureSlope(iso, xy[0], xy[1]);
-    return scaledCurvature(iso, xy[0], xy[1]);
-  };
-  const qAt = (u: number) => qdq(u);
   const root = (u0: number, u1: number, q0: number, q1: number) => {
-    let start: number | undefined;
-    if (near) for (const p of near) if (p.u > u0 && p.u < u1) start = p.u;
-    let u = start !== undefined ? newtonRoot(qdq, u0, u1, q0, start, 1e-14) : NaN;
-    if (Number.isNaN(u)) u = brentRoot(qAt, u0, u1, q0, q1, 1e-14);
-    if (Number.isNaN(u)) fail('convergence', `spinodal root search failed at T = ${iso.T} K`);
-    spinodal.push(pointAt(u));
+    spinodal.push(pointAt(spinodalRoot(iso, u0, u1, q0, q1)));
   };
   for (let i = 0; i + 1 < q.length; i++) {
     if (q[i] > 0 !== q[i + 1] > 0) root(points[i].u, points[i + 1].u, q[i], q[i + 1]);
@@ -154,6 +142,46 @@ function analyse(iso: Isotherm, points: Point[], q: Float64Array, refineAll: boo
   spinodal.sort((a, b) => a.u - b.u);
   if (spinodal.length % 2 !== 0) fail('convergence', `odd number of spinodal points at T = ${iso.T} K`);
   return { spinodal, minima, scale };
+}
+
+/**
+ * The root of q in [u0, u1] (q0, q1 of opposite signs): Brent's method from the bracket alone, so
+ * the same bracket gives the same bits whatever was solved before.
+ */
+function spinodalRoot(iso: Isotherm, u0: number, u1: number, q0: number, q1: number): number {
+  const u = brentRoot((t) => { splitRatio(t, xyRoot); return scaledCurvature(iso, xyRoot[0], xyRoot[1]); }, u0, u1, q0, q1, 1e-14);
+  if (Number.isNaN(u)) fail('convergence', `spinodal root search failed at T = ${iso.T} K`);
+  return u;
+}
+const xyRoot = new Float64Array(2);
+
+/**
+ * The spinodal point that curvatureMap would give for a root of q near `estimate`, without
+ * sampling the whole grid: the sampling range curvatureMap would choose (q > 0 at both ends),
+ * the grid cell holding the estimate and Brent's method on it, the same bits as curvatureMap's
+ * when q changes sign across that cell. Undefined when it does not (the root may lie in the
+ * next cell, or two roots share one: the caller samples the whole grid).
+ */
+export function spinodalRootNear(iso: Isotherm, estimate: number): number | undefined {
+  for (const U of RANGES) {
+    const { u, x, y } = gridFor(U);
+    const n = u.length;
+    const q0 = scaledCurvature(iso, x[0], y[0]), qn = scaledCurvature(iso, x[n - 1], y[n - 1]);
+    if (!(q0 > 0 && qn > 0)) {
+      if (Number.isNaN(q0) || Number.isNaN(qn)) return undefined;
+      continue;
+    }
+    if (!(estimate > u[0] && estimate < u[n - 1])) return undefined;
+    let lo = 0, hi = n - 1; // u[lo] < estimate < u[hi]
+    while (hi - lo > 1) {
+      const mid = (lo + hi) >> 1;
+      if (u[mid] < estimate) lo = mid; else hi = mid;
+    }
+    const qa = scaledCurvature(iso, x[lo], y[lo]), qb = scaledCurvature(iso, x[hi], y[hi]);
+    if (qa > 0 === qb > 0) return undefined;
+    return spinodalRoot(iso, u[lo], u[hi], qa, qb);
+  }
+  return undefined;
 }
 
 /**

@@ -88,7 +88,9 @@ export function checkTemperature(T: number): void {
 
 /**
  * Gaps and spinodal at T, solved once and remembered. The last temperature solved for the same
- * model (when within 10 %) seeds the solve: a filled column of temperatures continues from row to row.
+ * model (when within 10 %) gives the solve its starting points (a filled column of temperatures
+ * continues from row to row); the answer is the same bits without it (phaseMap ends every gap in
+ * the same final solve), so no cell depends on what was calculated before it.
  */
 export function equilibriumAt(model: BinaryModel, T: number): PhaseMap {
   checkTemperature(T);

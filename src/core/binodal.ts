@@ -1,7 +1,8 @@
-import { curvature, curvatureMap, curvatureSlope, spinodalRootNear } from './curvature';
+import { curvatureMap, spinodalRootNear } from './curvature';
 import { fail, MixgapError } from './errors';
 import type { Isotherm, Point } from './model';
 import { logRatio, muA, pointAt, splitRatio } from './model';
+import { cellNewton, signCell, type SignCell } from './roots';
 
 /** One miscibility gap at a temperature: the two coexisting compositions and their common tangent. */
 export interface Gap {
@@ -56,8 +57,8 @@ export function phaseMap(iso: Isotherm, hint?: PhaseMap): PhaseMap {
   const warm = hint && hint.spinodal.length === spinodal.length && hint.gaps.length > 0 ? hint : undefined;
   const branches = convexBranches(iso, spinodal);
   if (warm?.gaps.length === 1 && branches.length === 2 && !nearCritical(iso, branches[0], branches[1])) {
-    const estimate = tangentNewton(iso, warm.gaps[0], spinodal[0].u, spinodal[1].u);
-    const gap = estimate && canonicalGap(iso, branches[0], branches[1], estimate.low.u, estimate.high.u);
+    const gap = tangentNewton(iso, warm.gaps[0], spinodal[0].u, spinodal[1].u)
+      ? canonicalGap(iso, branches[0], branches[1], tangentEstimate[0], tangentEstimate[1]) : undefined;
     if (gap) return { T: iso.T, gaps: [gap], spinodal };
   }
   const gaps = (warm && sweep(iso, convexBranches(iso, spinodal), warm)) || sweep(iso, branches);
@@ -133,66 +134,61 @@ function criticalGap(iso: Isotherm, s1: number, s2: number): Gap {
   return { low, high, slope: iso.dg(c, 1 - c) };
 }
 
-/**
- * Width of the cells in u = ln(x / y) that make a final solve canonical (an exact binary fraction,
- * 1e-6: far wider than the rounding of any root, about 1e-15, far narrower than a branch).
- */
-const CELL = 2 ** -20;
-
-/**
- * The cell [i CELL, (i + 1) CELL] in which f (increasing up to rounding) changes sign, f(a) < 0 <= f(b),
- * walked to from the cell of an estimate. The signs at cell ends are computed from the ends alone,
- * so the cell is the same from any estimate close enough to the root; undefined if the walk does
- * not end within 16 cells (an estimate too far off) or f is not a number.
- */
-function signCell(f: (u: number) => number, estimate: number): { a: number; b: number; fa: number; fb: number } | undefined {
-  let i = Math.floor(estimate / CELL);
-  let fa = f(i * CELL), fb = f((i + 1) * CELL);
-  for (let walk = 0; walk < 16; walk++) {
-    if (fa < 0 && fb >= 0) return { a: i * CELL, b: (i + 1) * CELL, fa, fb };
-    if (!(fa === fa && fb === fb) || (fa >= 0 && fb < 0)) return undefined; // NaN, or not increasing
-    if (fa >= 0) { i--; fb = fa; fa = f(i * CELL); } else { i++; fa = fb; fb = f((i + 1) * CELL); }
-  }
-  return undefined;
-}
-
-/**
- * Newton's method for f = 0 from the middle of a sign cell, kept inside it (bisection when a step
- * leaves it): the result depends on the cell alone. `fdf` returns f and writes f' into out[0].
- * Quadratic convergence from 1e-6: after a step below 1e-12 the error is below 1e-20.
- */
-function cellNewton(fdf: (u: number, out: Float64Array) => number, cell: { a: number; b: number }, out: Float64Array): number | undefined {
-  let lo = cell.a, hi = cell.b, u = 0.5 * (lo + hi);
-  for (let iter = 0; iter < 60; iter++) {
-    const f = fdf(u, out);
-    if (f === 0) return u;
-    if (f < 0) lo = u; else hi = u;
-    const step = f / out[0];
-    if (Math.abs(step) <= 1e-12 * Math.max(1, Math.abs(u))) return Math.min(Math.max(u - step, lo), hi);
-    let next = u - step;
-    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-    if (next === u) return u;
-    u = next;
-  }
-  return undefined;
-}
+/** Relative step below which a Newton estimate may start a canonical final solve (quadratic convergence: its error is then of order 1e-8, within a cell or two). */
+const ESTIMATE = 1e-4;
 const innerSlope = new Float64Array(1), outerSlope = new Float64Array(1);
 const xyCell = new Float64Array(2);
 
+// State of the final solves below, at module level so that their inner loops allocate nothing.
+let solveIso: Isotherm;
+let solveM = 0;
+let partnerBranch: Branch;
+let partnerEstimate = 0;
+const innerCell: SignCell = { a: 0, b: 0, fa: 0, fb: 0 }, outerCell: SignCell = { a: 0, b: 0, fa: 0, fb: 0 };
+
+/** g'(u) - m. */
+function slopeGap(u: number): number {
+  splitRatio(u, xyCell);
+  return solveIso.dg(xyCell[0], xyCell[1]) - solveM;
+}
+
+/** g'(u) - m and its slope d g'/du = x y g''. */
+function slopeGapNewton(u: number, out: Float64Array): number {
+  splitRatio(u, xyCell);
+  const x = xyCell[0], y = xyCell[1];
+  out[0] = x * y * solveIso.d2g(x, y);
+  return solveIso.dg(x, y) - solveM;
+}
+
 /**
  * The point of branch `br` where g' = m, the same bits from any estimate within a few cells of it:
- * Newton from the middle of its sign cell. Undefined if that cell is not found or leaves the branch.
+ * Newton in its sign cell (roots.ts). Undefined if that cell is not found or leaves the branch.
  */
 function canonicalSlopePoint(iso: Isotherm, br: Branch, m: number, estimate: number): number | undefined {
-  const f = (u: number) => { splitRatio(u, xyCell); return iso.dg(xyCell[0], xyCell[1]) - m; };
-  const cell = signCell(f, estimate);
+  solveIso = iso;
+  solveM = m;
+  const cell = signCell(slopeGap, estimate, innerCell);
   if (!cell || !(cell.a > br.a && cell.b < br.b)) return undefined;
-  return cellNewton((u, out) => {
-    splitRatio(u, xyCell);
-    const x = xyCell[0], y = xyCell[1];
-    out[0] = x * y * iso.d2g(x, y);
-    return iso.dg(x, y) - m;
-  }, cell, innerSlope);
+  return cellNewton(slopeGapNewton, cell, innerSlope);
+}
+
+/**
+ * G(u1) = mu_A(u1) - mu_A(u2) with u2 on the partner branch where g'(u2) = g'(u1), and (with `out`)
+ * dG/du1 = c1 (x2 - x1); NaN where u2 cannot be found.
+ */
+function tangentGap(u: number, out?: Float64Array): number {
+  const iso = solveIso;
+  splitRatio(u, xyCell);
+  const x1 = xyCell[0], y1 = xyCell[1];
+  const m = iso.dg(x1, y1);
+  const mu1 = iso.g(x1, y1) - x1 * m;
+  const c1 = x1 * y1 * iso.d2g(x1, y1);
+  const v = canonicalSlopePoint(iso, partnerBranch, m, partnerEstimate);
+  if (v === undefined) return NaN;
+  splitRatio(v, xyCell);
+  const x2 = xyCell[0], y2 = xyCell[1];
+  if (out) out[0] = c1 * (x2 - x1);
+  return mu1 - (iso.g(x2, y2) - x2 * m);
 }
 
 /**
@@ -200,70 +196,65 @@ function canonicalSlopePoint(iso: Isotherm, br: Branch, m: number, estimate: num
  * warm start or the sweep found only chooses where the work starts. In u1 on branch j, with u2 on
  * branch k where g'(u2) = g'(u1) (canonicalSlopePoint), the common tangent is the root of
  *   G(u1) = mu_A(u1) - mu_A(u2),  dG/du1 = c1 (x2 - x1) > 0  (c = x y g''),
- * solved by cellNewton in its sign cell. Undefined when a cell is not found (the caller keeps its
- * own answer or solves again from scratch), or a boundary lies beyond 1e-300 (its own solve says so).
+ * solved by Newton in its sign cell (roots.ts). Undefined when a cell is not found (the caller
+ * keeps its own answer or solves again from scratch), or near 1e-300 (its own solve says why).
  */
 export function canonicalGap(iso: Isotherm, j: Branch, k: Branch, u1: number, u2: number): Gap | undefined {
   if (!(Math.abs(u1) < U_LIMIT - 1 && Math.abs(u2) < U_LIMIT - 1)) return undefined;
-  let partner = u2;
-  const G = (u: number, out?: Float64Array): number => {
-    splitRatio(u, xyCell);
-    const x1 = xyCell[0], y1 = xyCell[1];
-    const m = iso.dg(x1, y1);
-    const mu1 = iso.g(x1, y1) - x1 * m;
-    const c1 = x1 * y1 * iso.d2g(x1, y1);
-    const v = canonicalSlopePoint(iso, k, m, partner);
-    if (v === undefined) return NaN;
-    splitRatio(v, xyCell);
-    const x2 = xyCell[0], y2 = xyCell[1];
-    if (out) out[0] = c1 * (x2 - x1);
-    return mu1 - (iso.g(x2, y2) - x2 * m);
-  };
-  const cell = signCell((u) => G(u), u1);
+  solveIso = iso;
+  partnerBranch = k;
+  partnerEstimate = u2;
+  const cell = signCell(tangentGap, u1, outerCell);
   if (!cell || !(cell.a > j.a && cell.b < j.b)) return undefined;
-  const root = cellNewton(G, cell, outerSlope);
+  const root = cellNewton(tangentGap, cell, outerSlope);
   if (root === undefined) return undefined;
   const low = pointAt(root);
   const slope = iso.dg(low.x, low.y);
-  const v = canonicalSlopePoint(iso, k, slope, partner);
+  const v = canonicalSlopePoint(iso, k, slope, u2);
   if (v === undefined) return undefined;
   return { low, high: pointAt(v), slope };
 }
 
 /**
- * Fast path for one gap between two convex branches, from the gap of a nearby temperature:
+ * An estimate of the one gap between two convex branches, from the gap of a nearby temperature:
  * Newton on the common-tangent equations in (u', u'') jointly,
  *   G1 = g'(x') - g'(x'') = 0,  G2 = mu_A(x') - mu_A(x'') = 0,
- * with d g'/du = c = x y g'' and d mu_A/du = -x c. With two branches the tangent between them is
- * unique (F above is monotone), so a converged answer with x' left of the spinodal interval
- * [s1, s2] and x'' right of it is the gap. Returns undefined to fall back to the sweep.
+ * with d g'/du = c = x y g'' and d mu_A/du = -x c, until a step is below ESTIMATE (quadratic
+ * convergence: the error is then of order 1e-8, within a cell or two of canonicalGap, which ends it).
+ * With two branches the tangent between them is unique (F above is monotone), so an answer with
+ * x' left of the spinodal interval [s1, s2] and x'' right of it is the gap. Writes (u', u'') into
+ * `tangentEstimate` and returns true, or false to fall back to the sweep.
  */
-function tangentNewton(iso: Isotherm, start: Gap, s1: number, s2: number): Gap | undefined {
+function tangentNewton(iso: Isotherm, start: Gap, s1: number, s2: number): boolean {
   let u1 = start.low.u, u2 = start.high.u;
   for (let iter = 0; iter < 8; iter++) {
-    if (!(u1 < s1 && u2 > s2)) return undefined;
-    if (!(u1 > -U_LIMIT && u2 < U_LIMIT)) return undefined; // the full solve says why (1e-300)
-    const p1 = pointAt(u1), p2 = pointAt(u2);
-    const d1 = iso.dg(p1.x, p1.y), d2 = iso.dg(p2.x, p2.y);
+    if (!(u1 < s1 && u2 > s2)) return false;
+    if (!(u1 > -U_LIMIT && u2 < U_LIMIT)) return false; // the full solve says why (1e-300)
+    splitRatio(u1, xyCell);
+    const x1 = xyCell[0], y1 = xyCell[1];
+    splitRatio(u2, xyCell);
+    const x2 = xyCell[0], y2 = xyCell[1];
+    const d1 = iso.dg(x1, y1), d2 = iso.dg(x2, y2);
     const G1 = d1 - d2;
-    const G2 = iso.g(p1.x, p1.y) - p1.x * d1 - (iso.g(p2.x, p2.y) - p2.x * d2);
-    const c1 = p1.x * p1.y * iso.d2g(p1.x, p1.y), c2 = p2.x * p2.y * iso.d2g(p2.x, p2.y);
+    const G2 = iso.g(x1, y1) - x1 * d1 - (iso.g(x2, y2) - x2 * d2);
+    const c1 = x1 * y1 * iso.d2g(x1, y1), c2 = x2 * y2 * iso.d2g(x2, y2);
     // c1 du1 - c2 du2 = -G1;  -x1 c1 du1 + x2 c2 du2 = -G2
-    const b = -(G2 + p1.x * G1) / (p2.x - p1.x);
+    const b = -(G2 + x1 * G1) / (x2 - x1);
     const a = b - G1;
     const du1 = a / c1, du2 = b / c2;
-    if (!Number.isFinite(du1) || !Number.isFinite(du2)) return undefined;
+    if (!Number.isFinite(du1) || !Number.isFinite(du2)) return false;
     u1 += du1;
     u2 += du2;
-    // Newton converges quadratically here: after a step below 1e-12 the error is below 1e-20.
-    if (Math.abs(du1) <= 1e-12 * Math.max(1, Math.abs(u1)) && Math.abs(du2) <= 1e-12 * Math.max(1, Math.abs(u2))) {
-      if (!(u1 < s1 && u2 > s2)) return undefined;
-      const low = pointAt(u1), high = pointAt(u2);
-      return { low, high, slope: iso.dg(low.x, low.y) };
+    if (Math.abs(du1) <= ESTIMATE * Math.max(1, Math.abs(u1)) && Math.abs(du2) <= ESTIMATE * Math.max(1, Math.abs(u2))) {
+      if (!(u1 < s1 && u2 > s2)) return false;
+      tangentEstimate[0] = u1;
+      tangentEstimate[1] = u2;
+      return true;
     }
   }
-  return undefined;
+  return false;
 }
+const tangentEstimate = new Float64Array(2);
 
 /** The convex stretches of g around the unstable intervals bounded by `spinodal`, from low x. */
 export function convexBranches(iso: Isotherm, spinodal: Point[]): Branch[] {
@@ -418,21 +409,22 @@ export function continueMap(iso: Isotherm, prev: PhaseMap): PhaseMap | undefined
   const spinodal = [pointAt(s1), pointAt(s2)];
   const [j, k] = convexBranches(iso, spinodal);
   if (nearCritical(iso, j, k)) return { T: iso.T, gaps: [criticalGap(iso, s1, s2)], spinodal };
-  const estimate = tangentNewton(iso, prev.gaps[0], s1, s2);
-  const gap = estimate && canonicalGap(iso, j, k, estimate.low.u, estimate.high.u);
+  const gap = tangentNewton(iso, prev.gaps[0], s1, s2) ? canonicalGap(iso, j, k, tangentEstimate[0], tangentEstimate[1]) : undefined;
   return gap && { T: iso.T, gaps: [gap], spinodal };
 }
 
-/** A root of q = x y g''/RT near u, by Newton's method (undefined if it does not settle nearby). */
+/** An estimate of the root of q = x y g''/RT near u, by Newton's method (undefined if it does not settle nearby). */
 function followRoot(iso: Isotherm, u: number): number | undefined {
   const start = u;
   for (let iter = 0; iter < 12; iter++) {
-    const p = pointAt(u);
-    const step = curvature(iso, p) / curvatureSlope(iso, p);
+    splitRatio(u, xyCell);
+    const x = xyCell[0], y = xyCell[1], d2 = iso.d2g(x, y);
+    // q / (dq/du) = g'' / ((y - x) g'' + x y g''')
+    const step = d2 / ((y - x) * d2 + x * y * iso.d3g(x, y));
     if (!Number.isFinite(step)) return undefined;
     u -= step;
     if (Math.abs(u - start) > 0.5) return undefined;
-    if (Math.abs(step) <= 1e-12 * Math.max(1, Math.abs(u))) return u; // quadratic: error now < 1e-20
+    if (Math.abs(step) <= ESTIMATE * Math.max(1, Math.abs(u))) return u; // an estimate: error now of order 1e-8
   }
   return undefined;
 }

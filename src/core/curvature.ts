@@ -1,7 +1,7 @@
 import { fail } from './errors';
 import type { Isotherm, Point } from './model';
 import { pointAt, splitRatio } from './model';
-import { brentMin, brentRoot } from './roots';
+import { brentMin, brentRoot, cellNewton, signCell, type SignCell } from './roots';
 
 /**
  * Scaled curvature q(u) = x y g''(x) / (R T) as a function of u = ln(x / y).
@@ -145,43 +145,84 @@ function analyse(iso: Isotherm, points: Point[], q: Float64Array, refineAll: boo
 }
 
 /**
- * The root of q in [u0, u1] (q0, q1 of opposite signs): Brent's method from the bracket alone, so
- * the same bracket gives the same bits whatever was solved before.
+ * The root of q in [u0, u1] (q0, q1 of opposite signs), the same bits from any start: Brent's
+ * method to 1e-9 for an estimate, then Newton in the root's 2^-20 cell (canonicalRoot). Two roots
+ * within one cell (next to a critical point) keep Brent's method to 1e-14 on the bracket alone.
  */
 function spinodalRoot(iso: Isotherm, u0: number, u1: number, q0: number, q1: number): number {
-  const u = brentRoot((t) => { splitRatio(t, xyRoot); return scaledCurvature(iso, xyRoot[0], xyRoot[1]); }, u0, u1, q0, q1, 1e-14);
+  const qAt = (t: number) => { splitRatio(t, xyRoot); return scaledCurvature(iso, xyRoot[0], xyRoot[1]); };
+  const rough = brentRoot(qAt, u0, u1, q0, q1, 1e-9);
+  const polished = Number.isNaN(rough) ? undefined : canonicalRoot(iso, rough, q0 > 0 ? -1 : 1);
+  if (polished !== undefined) return polished;
+  const u = brentRoot(qAt, u0, u1, q0, q1, 1e-14);
   if (Number.isNaN(u)) fail('convergence', `spinodal root search failed at T = ${iso.T} K`);
   return u;
 }
 const xyRoot = new Float64Array(2);
+const slopeRoot = new Float64Array(1);
+
+/** State of canonicalRoot's functions, at module level so that they allocate nothing. */
+let rootIso: Isotherm;
+let rootSign = 1;
+const rootCell: SignCell = { a: 0, b: 0, fa: 0, fb: 0 };
+function signedQ(t: number): number {
+  splitRatio(t, xyRoot);
+  return rootSign * scaledCurvature(rootIso, xyRoot[0], xyRoot[1]);
+}
+function signedQNewton(t: number, out: Float64Array): number {
+  splitRatio(t, xyRoot);
+  out[0] = rootSign * scaledCurvatureSlope(rootIso, xyRoot[0], xyRoot[1]);
+  return rootSign * scaledCurvature(rootIso, xyRoot[0], xyRoot[1]);
+}
+
+/**
+ * The root of q near `estimate` where sign * q rises through zero, by Newton's method in its sign
+ * cell (roots.ts): the result depends on the cell alone, not on the estimate.
+ */
+function canonicalRoot(iso: Isotherm, estimate: number, sign: 1 | -1): number | undefined {
+  rootIso = iso;
+  rootSign = sign;
+  const cell = signCell(signedQ, estimate, rootCell);
+  return cell && cellNewton(signedQNewton, cell, slopeRoot);
+}
+
+/** The sampling grid curvatureMap chooses at this temperature (q > 0 at both ends), remembered for the last isotherm asked. */
+function samplingGrid(iso: Isotherm): Grid | undefined {
+  if (iso === gridIso) return gridChosen;
+  gridIso = iso;
+  gridChosen = undefined;
+  for (const U of RANGES) {
+    const grid = gridFor(U), { x, y } = grid, n = x.length;
+    const q0 = scaledCurvature(iso, x[0], y[0]), qn = scaledCurvature(iso, x[n - 1], y[n - 1]);
+    if (q0 > 0 && qn > 0) return (gridChosen = grid);
+    if (Number.isNaN(q0) || Number.isNaN(qn)) break;
+  }
+  return undefined;
+}
+let gridIso: Isotherm | undefined;
+let gridChosen: Grid | undefined;
 
 /**
  * The spinodal point that curvatureMap would give for a root of q near `estimate`, without
- * sampling the whole grid: the sampling range curvatureMap would choose (q > 0 at both ends),
- * the grid cell holding the estimate and Brent's method on it, the same bits as curvatureMap's
- * when q changes sign across that cell. Undefined when it does not (the root may lie in the
+ * sampling the whole grid: the sampling range curvatureMap would choose (q > 0 at both ends) and
+ * the grid cell holding the estimate; when q changes sign across that cell, the root's final
+ * solve from the estimate (the same bits as curvatureMap's). Undefined when it does not (the root may lie in the
  * next cell, or two roots share one: the caller samples the whole grid).
  */
 export function spinodalRootNear(iso: Isotherm, estimate: number): number | undefined {
-  for (const U of RANGES) {
-    const { u, x, y } = gridFor(U);
-    const n = u.length;
-    const q0 = scaledCurvature(iso, x[0], y[0]), qn = scaledCurvature(iso, x[n - 1], y[n - 1]);
-    if (!(q0 > 0 && qn > 0)) {
-      if (Number.isNaN(q0) || Number.isNaN(qn)) return undefined;
-      continue;
-    }
-    if (!(estimate > u[0] && estimate < u[n - 1])) return undefined;
-    let lo = 0, hi = n - 1; // u[lo] < estimate < u[hi]
-    while (hi - lo > 1) {
-      const mid = (lo + hi) >> 1;
-      if (u[mid] < estimate) lo = mid; else hi = mid;
-    }
-    const qa = scaledCurvature(iso, x[lo], y[lo]), qb = scaledCurvature(iso, x[hi], y[hi]);
-    if (qa > 0 === qb > 0) return undefined;
-    return spinodalRoot(iso, u[lo], u[hi], qa, qb);
+  const grid = samplingGrid(iso);
+  if (!grid) return undefined;
+  const { u, x, y } = grid;
+  const n = u.length;
+  if (!(estimate > u[0] && estimate < u[n - 1])) return undefined;
+  let lo = 0, hi = n - 1; // u[lo] < estimate < u[hi]
+  while (hi - lo > 1) {
+    const mid = (lo + hi) >> 1;
+    if (u[mid] < estimate) lo = mid; else hi = mid;
   }
-  return undefined;
+  const qa = scaledCurvature(iso, x[lo], y[lo]), qb = scaledCurvature(iso, x[hi], y[hi]);
+  if (qa > 0 === qb > 0) return undefined;
+  return canonicalRoot(iso, estimate, qa > 0 ? -1 : 1) ?? spinodalRoot(iso, u[lo], u[hi], qa, qb);
 }
 
 /**

@@ -307,7 +307,10 @@ function crossing(iso: Isotherm, j: Branch, k: Branch, mFrom: number, sure: bool
   };
   let m = m0 !== undefined && m0 > lo && m0 < hi ? m0 : 0.5 * (lo + hi);
   if (!sure) {
-    if (F(hi).F < 0) return undefined; // branch j stays below branch k over the whole overlap
+    // Branch j stays below branch k over the whole overlap: no crossing. (A value below zero
+    // within the rounding of F, where both points lie within 1e-13 of the same pure component and
+    // F hardly rises, does not say so: the root search below decides.)
+    if (F(hi).F < -1e-15 * (iso.RT + Math.abs(lo) + Math.abs(hi))) return undefined;
     const atLo = F(lo);
     if (atLo.F >= 0) return lo;
     if (m0 === undefined) {

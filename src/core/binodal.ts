@@ -2,6 +2,7 @@ import { curvatureMap, spinodalRootNear } from './curvature';
 import { fail, MixgapError } from './errors';
 import type { Isotherm, Point } from './model';
 import { logRatio, muA, pointAt, splitRatio } from './model';
+import { BRACKET_WIDTH, DILUTE_LIMIT, ESTIMATE, NEWTON_STEP, SLOPE_STEP, U_LIMIT } from './limits';
 import { cellNewton, signCell, type SignCell } from './roots';
 
 /** One miscibility gap at a temperature: the two coexisting compositions and their common tangent. */
@@ -134,8 +135,6 @@ function criticalGap(iso: Isotherm, s1: number, s2: number): Gap {
   return { low, high, slope: iso.dg(c, 1 - c) };
 }
 
-/** Relative step below which a Newton estimate may start a canonical final solve (quadratic convergence: its error is then of order 1e-8, within a cell or two). */
-const ESTIMATE = 1e-4;
 const innerSlope = new Float64Array(1), outerSlope = new Float64Array(1);
 const xyCell = new Float64Array(2);
 
@@ -197,7 +196,7 @@ function tangentGap(u: number, out?: Float64Array): number {
  * branch k where g'(u2) = g'(u1) (canonicalSlopePoint), the common tangent is the root of
  *   G(u1) = mu_A(u1) - mu_A(u2),  dG/du1 = c1 (x2 - x1) > 0  (c = x y g''),
  * solved by Newton in its sign cell (roots.ts). Undefined when a cell is not found (the caller
- * keeps its own answer or solves again from scratch), or near 1e-300 (its own solve says why).
+ * keeps its own answer or solves again from scratch), or near U_LIMIT (its own solve says why).
  */
 export function canonicalGap(iso: Isotherm, j: Branch, k: Branch, u1: number, u2: number): Gap | undefined {
   if (!(Math.abs(u1) < U_LIMIT - 1 && Math.abs(u2) < U_LIMIT - 1)) return undefined;
@@ -229,7 +228,7 @@ function tangentNewton(iso: Isotherm, start: Gap, s1: number, s2: number): boole
   let u1 = start.low.u, u2 = start.high.u;
   for (let iter = 0; iter < 8; iter++) {
     if (!(u1 < s1 && u2 > s2)) return false;
-    if (!(u1 > -U_LIMIT && u2 < U_LIMIT)) return false; // the full solve says why (1e-300)
+    if (!(u1 > -U_LIMIT && u2 < U_LIMIT)) return false; // the full solve says why (DILUTE_LIMIT)
     splitRatio(u1, xyCell);
     const x1 = xyCell[0], y1 = xyCell[1];
     splitRatio(u2, xyCell);
@@ -284,7 +283,7 @@ function tangentHeight(iso: Isotherm, br: Branch, m: number): { h: number; x: nu
     const p = pointAt(solveSlope(iso, br, m));
     return { h: muA(iso, p.x, p.y), x: p.x };
   } catch (e) {
-    // A trial slope whose point lies beyond 1e-300 of a pure component: there the tangent of
+    // A trial slope whose point lies beyond U_LIMIT (closer than DILUTE_LIMIT to a pure component): there the tangent of
     // slope m touches g at the end itself, to every digit: x = 0, h = 0, or x = 1, h = g(1) - m = -m.
     // (The slope finally chosen is solved again, and fails properly if its point is out of range.)
     if (!(e instanceof MixgapError && e.reason === 'range')) throw e;
@@ -310,7 +309,7 @@ function crossing(iso: Isotherm, j: Branch, k: Branch, mFrom: number, sure: bool
     // Branch j stays below branch k over the whole overlap: no crossing. (A value below zero
     // within the rounding of F, where both points lie within 1e-13 of the same pure component and
     // F hardly rises, does not say so: the root search below decides.)
-    if (F(hi).F < -1e-15 * (iso.RT + Math.abs(lo) + Math.abs(hi))) return undefined;
+    if (F(hi).F < -SLOPE_STEP * (iso.RT + Math.abs(lo) + Math.abs(hi))) return undefined;
     const atLo = F(lo);
     if (atLo.F >= 0) return lo;
     if (m0 === undefined) {
@@ -326,7 +325,7 @@ function crossing(iso: Isotherm, j: Branch, k: Branch, mFrom: number, sure: bool
     if (f < 0) lo = m; else hi = m;
     let next = m - f / dF;
     if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-    if (Math.abs(next - m) <= 1e-15 * scale || hi - lo <= 4e-16 * scale) {
+    if (Math.abs(next - m) <= SLOPE_STEP * scale || hi - lo <= BRACKET_WIDTH * scale) {
       // Pinned against an end of the overlap: there was no sign change, so no tangent.
       if (next - lo0 <= 1e-9 * (hi0 - lo0) || hi0 - next <= 1e-9 * (hi0 - lo0)) {
         return fail('convergence', `no common tangent between the convex stretches at T = ${iso.T} K`);
@@ -341,8 +340,6 @@ function crossing(iso: Isotherm, j: Branch, k: Branch, mFrom: number, sure: bool
 /** Scratch for x and y in solveSlope's loop. */
 const xy = new Float64Array(2);
 
-/** |u| at which x (or 1 - x) reaches 1e-304: beyond, compositions are not representable with precision. */
-const U_LIMIT = 700;
 
 /**
  * The u on branch `br` where g'(u) = m: g' is increasing there (d g'/du = x y g'' >= 0).
@@ -351,7 +348,7 @@ const U_LIMIT = 700;
 export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
   if (m >= br.mB) return br.b;
   if (m <= br.mA) return br.a;
-  const tooDilute = () => fail('range', `a tangent point (gap boundary) lies closer than 1e-300 to a pure component at T = ${iso.T} K`);
+  const tooDilute = () => fail('range', `a tangent point (gap boundary) lies closer than ${DILUTE_LIMIT} to a pure component at T = ${iso.T} K`);
   let lo = br.a, hi = br.b;
   let u = Math.min(Math.max(br.guess, lo), hi);
   if (!Number.isFinite(u)) u = 0;
@@ -362,9 +359,9 @@ export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
     if (f === 0) { br.guess = u; return u; }
     if (f < 0) lo = u; else hi = u;
     const step = f / (x * y * iso.d2g(x, y));
-    // Newton converges quadratically here: after a step below 1e-12 the error is below 1e-20.
+    // Newton converges quadratically here: after a step below NEWTON_STEP (1e-12) the error is below 1e-20.
     // (Tested on the raw step: one that lands within an ulp of the root may touch the bracket.)
-    if (Math.abs(step) <= 1e-12 * Math.max(1, Math.abs(u))) {
+    if (Math.abs(step) <= NEWTON_STEP * Math.max(1, Math.abs(u))) {
       const root = Math.min(Math.max(u - step, lo), hi);
       if (Math.abs(root) >= U_LIMIT) tooDilute();
       br.guess = root;
@@ -383,7 +380,7 @@ export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
       if (Math.abs(u) === U_LIMIT) tooDilute();
       next = next < 0 ? -U_LIMIT : U_LIMIT;
     }
-    if (hi - lo <= 4e-16 * Math.max(1, Math.abs(u))) {
+    if (hi - lo <= BRACKET_WIDTH * Math.max(1, Math.abs(u))) {
       if (Math.abs(next) >= U_LIMIT) tooDilute();
       br.guess = next;
       return next;

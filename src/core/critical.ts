@@ -1,5 +1,5 @@
 import { phaseMap } from './binodal';
-import { T_SEARCH_MAX, T_SEARCH_MIN } from './constants';
+import { T_SEARCH_MAX, T_SEARCH_MIN } from './limits';
 import { curvature, curvatureMap, refineExtremum } from './curvature';
 import { fail } from './errors';
 import type { BinaryModel, Isotherm, Point } from './model';
@@ -182,7 +182,7 @@ function closesThere(model: BinaryModel, Tc: number, u: number, kind: 'upper' | 
 
 /** The critical point numbered n (1 = highest temperature). */
 export function criticalPoint(points: CriticalPoint[], n: number): CriticalPoint {
-  if (points.length === 0) fail('none', 'this system has no critical point between 1 K and 20000 K');
+  if (points.length === 0) fail('none', `this system has no critical point between ${T_SEARCH_MIN} K and ${T_SEARCH_MAX} K`);
   if (!(n >= 1 && n <= points.length && Number.isInteger(n))) {
     fail('range', `critical point ${n} does not exist: this system has ${points.length} (numbered 1 to ${points.length}, highest temperature first)`);
   }

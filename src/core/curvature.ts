@@ -1,6 +1,7 @@
 import { fail } from './errors';
 import type { Isotherm, Point } from './model';
 import { pointAt, splitRatio } from './model';
+import { CURVATURE_RANGES as RANGES, DILUTE_LIMIT } from './limits';
 import { brentMin, brentRoot, cellNewton, signCell, type SignCell } from './roots';
 
 /**
@@ -80,8 +81,6 @@ function gridFor(U: number): Grid {
 /** Scratch space for the sampled q (analyse() reads it before any further call can overwrite it). */
 const qBuffer = new Float64Array(256);
 
-/** The sampling ranges tried in turn; the widest reaches x = 1e-304. */
-const RANGES = [40, 160, 700];
 
 /**
  * Finds every spinodal point (root of g'') and every local minimum of q at one temperature.
@@ -102,7 +101,7 @@ export function curvatureMap(iso: Isotherm, refineAll = true): CurvatureMap {
     }
     return analyse(iso, points, q, refineAll);
   }
-  return fail('range', `the solution is unstable even at x = 1e-304 at T = ${iso.T} K: the parameters are too large for this temperature`);
+  return fail('range', `the solution is unstable even at x = ${DILUTE_LIMIT} at T = ${iso.T} K: the parameters are too large for this temperature`);
 }
 
 function analyse(iso: Isotherm, points: Point[], q: Float64Array, refineAll: boolean): CurvatureMap {

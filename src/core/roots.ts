@@ -1,4 +1,5 @@
 /** Small root finders and minimisers over one variable, shared by the solvers. */
+import { CELL, NEWTON_STEP } from './limits';
 
 /**
  * Brent's method (zeroin) for f(t) = 0 on [a, b] with f(a), f(b) of opposite signs (or one zero).
@@ -103,11 +104,6 @@ export function newtonRoot(
   return NaN;
 }
 
-/**
- * Width of the cells that make a final solve canonical (an exact binary fraction, about 1e-6: far
- * wider than the rounding of any root here, about 1e-15, far narrower than what separates roots).
- */
-export const CELL = 2 ** -20;
 
 /** A cell [a, b] of the CELL grid with f(a) < 0 <= f(b), and those values. */
 export interface SignCell {
@@ -153,7 +149,7 @@ export function cellNewton(fdf: (t: number, out: Float64Array) => number, cell: 
     if (f === 0) return t;
     if (f < 0) lo = t; else hi = t;
     const step = f / out[0];
-    if (Math.abs(step) <= 1e-12 * Math.max(1, Math.abs(t))) return Math.min(Math.max(t - step, lo), hi);
+    if (Math.abs(step) <= NEWTON_STEP * Math.max(1, Math.abs(t))) return Math.min(Math.max(t - step, lo), hi);
     let next = t - step;
     if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
     if (next === t) return t;

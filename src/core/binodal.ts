@@ -2,7 +2,7 @@ import { curvatureMap, spinodalRootNear } from './curvature';
 import { fail, MixgapError } from './errors';
 import type { Isotherm, Point } from './model';
 import { logRatio, muA, pointAt, splitRatio } from './model';
-import { BRACKET_WIDTH, DILUTE_LIMIT, ESTIMATE, NEWTON_STEP, SLOPE_STEP, U_LIMIT } from './limits';
+import { BRACKET_WIDTH, DILUTE_LIMIT, ESTIMATE, NEAR_CRITICAL_DROP, NEWTON_STEP, SLOPE_STEP, U_LIMIT } from './limits';
 import { cellNewton, signCell, type SignCell } from './roots';
 
 /** One miscibility gap at a temperature: the two coexisting compositions and their common tangent. */
@@ -30,9 +30,9 @@ export interface PhaseMap {
 export interface Branch {
   a: number;
   b: number;
-  /** g' at a and b (-Infinity and +Infinity at the dilute ends). */
-  mA: number;
-  mB: number;
+  /** g' at the branch's low end a and at its high end b (-Infinity and +Infinity at the dilute ends). */
+  slopeLow: number;
+  slopeHigh: number;
   /** Last point solved on this branch: the starting guess of the next solve. */
   guess: number;
 }
@@ -85,7 +85,7 @@ function sweep(iso: Isotherm, branches: Branch[], warm?: PhaseMap): Gap[] | unde
     for (let k = active + 1; k < branches.length; k++) {
       const j = branches[active], next = branches[k];
       if (k === active + 1 && nearCritical(iso, j, next)) {
-        const m = 0.5 * (j.mB + next.mA);
+        const m = 0.5 * (j.slopeHigh + next.slopeLow);
         if (m > mFrom && (best === undefined || m < best.m)) best = { m, k, nearCritical: true };
         continue;
       }
@@ -117,7 +117,7 @@ function sweep(iso: Isotherm, branches: Branch[], warm?: PhaseMap): Gap[] | unde
  * order of the expansion about the critical point is used instead (see criticalGap).
  */
 function nearCritical(iso: Isotherm, j: Branch, k: Branch): boolean {
-  return j.mB - k.mA < 1e-11 * iso.RT;
+  return j.slopeHigh - k.slopeLow < NEAR_CRITICAL_DROP * iso.RT;
 }
 
 /**
@@ -273,7 +273,7 @@ export function convexBranches(iso: Isotherm, spinodal: Point[]): Branch[] {
   function branch(a: Point | undefined, b: Point | undefined): Branch {
     const ua = a ? a.u : -Infinity, ub = b ? b.u : Infinity;
     const guess = a && b ? 0.5 * (ua + ub) : a ? ua + 1 : b ? ub - 1 : 0;
-    return { a: ua, b: ub, mA: a ? slopeAt(a) : -Infinity, mB: b ? slopeAt(b) : Infinity, guess };
+    return { a: ua, b: ub, slopeLow: a ? slopeAt(a) : -Infinity, slopeHigh: b ? slopeAt(b) : Infinity, guess };
   }
 }
 
@@ -297,8 +297,8 @@ function tangentHeight(iso: Isotherm, br: Branch, m: number): { h: number; x: nu
  * dF/dm = x_k - x_j, started at `m0` when given.
  */
 function crossing(iso: Isotherm, j: Branch, k: Branch, mFrom: number, sure: boolean, m0?: number): number | undefined {
-  let lo = Math.max(j.mA, k.mA, mFrom);
-  let hi = Math.min(j.mB, k.mB);
+  let lo = Math.max(j.slopeLow, k.slopeLow, mFrom);
+  let hi = Math.min(j.slopeHigh, k.slopeHigh);
   if (!(lo < hi)) return undefined;
   const F = (m: number) => {
     const pj = tangentHeight(iso, j, m), pk = tangentHeight(iso, k, m);
@@ -346,8 +346,8 @@ const xy = new Float64Array(2);
  * Safeguarded Newton in u, with the bracket widened towards a dilute end when the branch is open.
  */
 export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
-  if (m >= br.mB) return br.b;
-  if (m <= br.mA) return br.a;
+  if (m >= br.slopeHigh) return br.b;
+  if (m <= br.slopeLow) return br.a;
   const tooDilute = () => fail('range', `a tangent point (gap boundary) lies closer than ${DILUTE_LIMIT} to a pure component at T = ${iso.T} K`);
   let lo = br.a, hi = br.b;
   let u = Math.min(Math.max(br.guess, lo), hi);

@@ -26,6 +26,9 @@ export const BRACKET_WIDTH = 4e-16;
 /** The common-tangent slope stops after a step below SLOPE_STEP of its scale (RT + |slopes|): F is then at its rounding. */
 export const SLOPE_STEP = 1e-15;
 
+/** Below a fall of g' of NEAR_CRITICAL_DROP RT across an unstable interval (width about 1e-4), the tangent is within the rounding of g': the expansion about the critical point is used. */
+export const NEAR_CRITICAL_DROP = 1e-11;
+
 /**
  * Width of the cells of u that make a final solve canonical: 2^-20, an exact binary fraction,
  * far wider than the rounding of a root (about 1e-15), far narrower than what separates roots.

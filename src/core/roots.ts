@@ -78,33 +78,6 @@ export function brentMin(f: (t: number) => number, a: number, b: number, tol = 1
   return { t: x, f: fx };
 }
 
-/**
- * Safeguarded Newton for f(t) = 0 on [lo, hi] with f(lo) and f(hi) of opposite signs, started at t0:
- * a Newton step that leaves the shrinking bracket is replaced by bisection. `fdf` returns f and
- * writes f' into out[0]. Returns NaN if it does not meet |step| <= tol within 100 steps.
- */
-const slopeOut = new Float64Array(1);
-
-export function newtonRoot(
-  fdf: (t: number, out: Float64Array) => number,
-  lo: number, hi: number, fLo: number, t0: number, tol: number,
-): number {
-  const out = slopeOut;
-  const rising = fLo < 0;
-  let t = t0 > lo && t0 < hi ? t0 : 0.5 * (lo + hi);
-  for (let iter = 0; iter < 100; iter++) {
-    const f = fdf(t, out);
-    if (f === 0) return t;
-    if ((f < 0) === rising) lo = t; else hi = t;
-    let next = t - f / out[0];
-    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-    if (Math.abs(next - t) <= tol || hi - lo <= tol) return next;
-    t = next;
-  }
-  return NaN;
-}
-
-
 /** A cell [a, b] of the CELL grid with f(a) < 0 <= f(b), and those values. */
 export interface SignCell {
   a: number;

@@ -184,6 +184,7 @@ function tangentGap(u: number, out?: Float64Array): number {
   const c1 = x1 * y1 * iso.d2g(x1, y1);
   const v = canonicalSlopePoint(iso, partnerBranch, m, partnerEstimate);
   if (v === undefined) return NaN;
+  partnerEstimate = v; // the next point is near (the answer does not depend on the estimate)
   splitRatio(v, xyCell);
   const x2 = xyCell[0], y2 = xyCell[1];
   if (out) out[0] = c1 * (x2 - x1);

@@ -69,6 +69,7 @@ const models: Array<[string, BinaryModel, number, number]> = [
 if (process.argv[2] === 'memory') memory();
 else if (process.argv[2] === 'startup') startup();
 else if (process.argv[2] === 'workbooks') void workbookSection();
+else if (process.argv[2] === 'sweep') sweepAgainstFloor(); // this part alone: node dist/node/bench.js sweep
 else main().then(startup).catch((e) => { console.error(e); process.exit(1); });
 
 async function main() {
@@ -83,6 +84,7 @@ for (const [name, model, T1, T2] of models) {
   const crit = criticalPoints(model);
   report(`1000-temperature gap table (core), ${name}`, fmt(whole(() => gapTable(model, evenTemperatures(T1, T2, 1000), 1, crit))), name.startsWith('Redlich') ? 'target < 3 ms' : '');
 }
+sweepAgainstFloor();
 report('1000-temperature GAPTABLE cell function (critical points cached)', fmt(whole(() => cells.gapTable(500, 900, 1000, rk3Params))));
 for (const [name, model] of models) report(`critical points 1 K to 20000 K (once per system), ${name}`, fmt(whole(() => criticalPoints(model), 9)));
 report('GAPLOW cell function, new temperature each call (cache misses)', fmt(perCall((i) => cells.gapLow(500 + ((i * 0.6180339887) % 1) * 400, rk3Params))));
@@ -107,6 +109,50 @@ report('1e6 distinct GAPLOW calls: heap in use before them (after GC)', `${figur
 report('1e6 distinct GAPLOW calls: time per call', fmt(figures.usPerCall));
 worstCases();
 await workbookSection();
+}
+
+/**
+ * Speed of a temperature sweep against the bare arithmetic of one: a 1000-temperature gap table of
+ * the 3-term Redlich–Kister system per row, beside a bare warm Newton solve of its two boundaries
+ * (g, g', g'' at two points, four iterations from the previous row's answer, nothing else) over the
+ * same temperatures, measured in the same run, and their ratio. Target: a row at most 1.5 µs, the
+ * ratio at most 6.
+ */
+function sweepAgainstFloor() {
+  const [, model, T1, T2] = models[0];
+  const crit = criticalPoints(model);
+  const Ts = evenTemperatures(T1, T2, 1000);
+  const start = phaseMap(model.at(T1)).gaps[0];
+  const floor = () => {
+    let u1 = start.low.u, u2 = start.high.u, sum = 0;
+    for (const T of Ts) {
+      const iso = model.at(T);
+      for (let iter = 0; iter < 4; iter++) {
+        const e1 = Math.exp(-Math.abs(u1)), e2 = Math.exp(-Math.abs(u2));
+        const x1 = u1 < 0 ? e1 / (1 + e1) : 1 / (1 + e1), y1 = u1 < 0 ? 1 / (1 + e1) : e1 / (1 + e1);
+        const x2 = u2 < 0 ? e2 / (1 + e2) : 1 / (1 + e2), y2 = u2 < 0 ? 1 / (1 + e2) : e2 / (1 + e2);
+        const d1 = iso.dg(x1, y1), d2 = iso.dg(x2, y2);
+        const G1 = d1 - d2, G2 = iso.g(x1, y1) - x1 * d1 - (iso.g(x2, y2) - x2 * d2);
+        const c1 = x1 * y1 * iso.d2g(x1, y1), c2 = x2 * y2 * iso.d2g(x2, y2);
+        const b = -(G2 + x1 * G1) / (x2 - x1);
+        u1 += (b - G1) / c1;
+        u2 += b / c2;
+      }
+      sum += u1 + u2;
+    }
+    return sum;
+  };
+  // Timed in alternation, so that a busy machine slows both alike: medians of each and of the ratios.
+  const time = (task: () => unknown) => { const t0 = performance.now(); task(); return ((performance.now() - t0) * 1000) / Ts.length; };
+  for (let w = 0; w < 5; w++) { time(() => gapTable(model, Ts, 1, crit)); time(floor); }
+  const sweeps: number[] = [], bares: number[] = [], ratios: number[] = [];
+  for (let r = 0; r < 61; r++) {
+    const s = time(() => gapTable(model, Ts, 1, crit)), b = time(floor);
+    sweeps.push(s); bares.push(b); ratios.push(s / b);
+  }
+  report('sweep: 1000-temperature gap table, per row, Redlich–Kister 3 terms', fmt(median(sweeps)), 'target <= 1.5 µs');
+  report('bare warm Newton of the two boundaries (4 iterations), per row, same temperatures', fmt(median(bares)));
+  report('sweep / bare Newton (median of the ratios of alternate runs)', `${median(ratios).toFixed(1)}x`, 'target <= 6');
 }
 
 /** 1e6 distinct calls through the cell function (every one a cache miss); prints JSON figures. */

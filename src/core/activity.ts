@@ -82,7 +82,7 @@ export function drivingForce(iso: Isotherm, map: PhaseMap, x0: number): number {
   const branches = convexBranches(iso, map.spinodal);
   if (branches.length < 2) return 0; // only a critical point met exactly: still convex
   for (const br of branches) {
-    if (!(m0 > br.mA && m0 < br.mB)) continue;
+    if (!(m0 > br.slopeLow && m0 < br.slopeHigh)) continue;
     let height: number;
     try {
       const p = pointAt(solveSlope(iso, br, m0));

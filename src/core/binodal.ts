@@ -1,7 +1,9 @@
-import { curvature, curvatureMap, curvatureSlope } from './curvature';
-import { fail, MixgapError, kelvin, msg } from './errors';
+import { curvatureMap, spinodalRootNear } from './curvature';
+import { fail, kelvin, MixgapError, msg } from './errors';
 import type { Isotherm, Point } from './model';
 import { logRatio, muA, pointAt, splitRatio } from './model';
+import { BRACKET_WIDTH, DILUTE_LIMIT, ESTIMATE, NEAR_CRITICAL_DROP, NEWTON_STEP, SLOPE_STEP, U_LIMIT } from './limits';
+import { cellNewton, signCell, type SignCell } from './roots';
 
 /** One miscibility gap at a temperature: the two coexisting compositions and their common tangent. */
 export interface Gap {
@@ -28,9 +30,9 @@ export interface PhaseMap {
 export interface Branch {
   a: number;
   b: number;
-  /** g' at a and b (-Infinity and +Infinity at the dilute ends). */
-  mA: number;
-  mB: number;
+  /** g' at the branch's low end a and at its high end b (-Infinity and +Infinity at the dilute ends). */
+  slopeLow: number;
+  slopeHigh: number;
   /** Last point solved on this branch: the starting guess of the next solve. */
   guess: number;
 }
@@ -48,47 +50,64 @@ export interface Branch {
  * including several at one temperature, and never returns a tangent that cuts g elsewhere.
  */
 export function phaseMap(iso: Isotherm, hint?: PhaseMap): PhaseMap {
-  const { spinodal } = curvatureMap(iso, false, hint?.spinodal);
-  const gaps: Gap[] = [];
-  const branches = spinodal.length > 0 ? convexBranches(iso, spinodal) : [];
-  if (branches.length > 1) {
-    // A nearby temperature with the same structure gives the starting points of every solve.
-    const warm = hint && hint.spinodal.length === spinodal.length && hint.gaps.length > 0 ? hint : undefined;
-    if (warm?.gaps.length === 1 && branches.length === 2 && spinodal.length === 2 && !nearCritical(iso, branches[0], branches[1])) {
-      const gap = tangentNewton(iso, warm.gaps[0], spinodal[0].u, spinodal[1].u);
-      if (gap) return { T: iso.T, gaps: [gap], spinodal };
-      branches[0].guess = warm.gaps[0].low.u;
-      branches[1].guess = warm.gaps[0].high.u;
-    }
-    let active = 0;
-    let mFrom = -Infinity;
-    while (active < branches.length - 1) {
-      let best: { m: number; k: number; nearCritical?: boolean } | undefined;
-      for (let k = active + 1; k < branches.length; k++) {
-        const j = branches[active], next = branches[k];
-        if (k === active + 1 && nearCritical(iso, j, next)) {
-          const m = 0.5 * (j.mB + next.mA);
-          if (m > mFrom && (best === undefined || m < best.m)) best = { m, k, nearCritical: true };
-          continue;
-        }
-        // With two branches only, the envelope must pass from one to the other: no need to test.
-        const sure = branches.length === 2;
-        const m = crossing(iso, j, next, mFrom, sure, warm?.gaps[gaps.length]?.slope);
-        if (m !== undefined && (best === undefined || m < best.m)) best = { m, k };
-      }
-      if (best === undefined) fail('convergence', msg`the common-tangent sweep lost the envelope at T = ${kelvin(iso.T)}`);
-      if (best.nearCritical) {
-        gaps.push(criticalGap(iso, branches[active].b, branches[best.k].a));
-      } else {
-        const low = pointAt(solveSlope(iso, branches[active], best.m));
-        const high = pointAt(solveSlope(iso, branches[best.k], best.m));
-        gaps.push({ low, high, slope: best.m });
-      }
-      active = best.k;
-      mFrom = best.m;
-    }
+  const { spinodal } = curvatureMap(iso, false);
+  if (spinodal.length === 0) return { T: iso.T, gaps: [], spinodal };
+  // A nearby temperature with the same structure gives the starting points of every solve; the
+  // answer does not depend on it (every gap ends in canonicalGap), and when a final solve cannot
+  // be made canonical the whole sweep is done again without it.
+  const warm = hint && hint.spinodal.length === spinodal.length && hint.gaps.length > 0 ? hint : undefined;
+  const branches = convexBranches(iso, spinodal);
+  if (warm?.gaps.length === 1 && branches.length === 2 && !nearCritical(iso, branches[0], branches[1])) {
+    const gap = tangentNewton(iso, warm.gaps[0], spinodal[0].u, spinodal[1].u)
+      ? canonicalGap(iso, branches[0], branches[1], tangentEstimate[0], tangentEstimate[1]) : undefined;
+    if (gap) return { T: iso.T, gaps: [gap], spinodal };
   }
-  return { T: iso.T, gaps, spinodal };
+  const gaps = (warm && sweep(iso, convexBranches(iso, spinodal), warm)) || sweep(iso, branches);
+  return { T: iso.T, gaps: gaps as Gap[], spinodal };
+}
+
+/**
+ * The sweep of tangent slopes over the convex branches (see phaseMap). With `warm`, the gaps of a
+ * nearby temperature start the solves, and undefined is returned if a gap's final solve cannot be
+ * made canonical (the caller sweeps again without it, so that the answer never depends on `warm`).
+ */
+function sweep(iso: Isotherm, branches: Branch[], warm?: PhaseMap): Gap[] | undefined {
+  const gaps: Gap[] = [];
+  if (branches.length < 2) return gaps;
+  if (warm?.gaps.length === 1 && branches.length === 2) {
+    branches[0].guess = warm.gaps[0].low.u;
+    branches[1].guess = warm.gaps[0].high.u;
+  }
+  let active = 0;
+  let mFrom = -Infinity;
+  while (active < branches.length - 1) {
+    let best: { m: number; k: number; nearCritical?: boolean } | undefined;
+    for (let k = active + 1; k < branches.length; k++) {
+      const j = branches[active], next = branches[k];
+      if (k === active + 1 && nearCritical(iso, j, next)) {
+        const m = 0.5 * (j.slopeHigh + next.slopeLow);
+        if (m > mFrom && (best === undefined || m < best.m)) best = { m, k, nearCritical: true };
+        continue;
+      }
+      // With two branches only, the envelope must pass from one to the other: no need to test.
+      const sure = branches.length === 2;
+      const m = crossing(iso, j, next, mFrom, sure, warm?.gaps[gaps.length]?.slope);
+      if (m !== undefined && (best === undefined || m < best.m)) best = { m, k };
+    }
+    if (best === undefined) fail('convergence', msg`the common-tangent sweep lost the envelope at T = ${kelvin(iso.T)}`);
+    if (best.nearCritical) {
+      gaps.push(criticalGap(iso, branches[active].b, branches[best.k].a));
+    } else {
+      const u1 = solveSlope(iso, branches[active], best.m);
+      const u2 = solveSlope(iso, branches[best.k], best.m);
+      const gap = canonicalGap(iso, branches[active], branches[best.k], u1, u2);
+      if (!gap && warm) return undefined;
+      gaps.push(gap ?? { low: pointAt(u1), high: pointAt(u2), slope: best.m });
+    }
+    active = best.k;
+    mFrom = best.m;
+  }
+  return gaps;
 }
 
 /**
@@ -98,7 +117,7 @@ export function phaseMap(iso: Isotherm, hint?: PhaseMap): PhaseMap {
  * order of the expansion about the critical point is used instead (see criticalGap).
  */
 function nearCritical(iso: Isotherm, j: Branch, k: Branch): boolean {
-  return j.mB - k.mA < 1e-11 * iso.RT;
+  return j.slopeHigh - k.slopeLow < NEAR_CRITICAL_DROP * iso.RT;
 }
 
 /**
@@ -116,40 +135,126 @@ function criticalGap(iso: Isotherm, s1: number, s2: number): Gap {
   return { low, high, slope: iso.dg(c, 1 - c) };
 }
 
+const innerSlope = new Float64Array(1), outerSlope = new Float64Array(1);
+const xyCell = new Float64Array(2);
+
+// State of the final solves below, at module level so that their inner loops allocate nothing.
+let solveIso: Isotherm;
+let solveM = 0;
+let partnerBranch: Branch;
+let partnerEstimate = 0;
+const innerCell: SignCell = { a: 0, b: 0, fa: 0, fb: 0 }, outerCell: SignCell = { a: 0, b: 0, fa: 0, fb: 0 };
+
+/** g'(u) - m. */
+function slopeGap(u: number): number {
+  splitRatio(u, xyCell);
+  return solveIso.dg(xyCell[0], xyCell[1]) - solveM;
+}
+
+/** g'(u) - m and its slope d g'/du = x y g''. */
+function slopeGapNewton(u: number, out: Float64Array): number {
+  splitRatio(u, xyCell);
+  const x = xyCell[0], y = xyCell[1];
+  out[0] = x * y * solveIso.d2g(x, y);
+  return solveIso.dg(x, y) - solveM;
+}
+
 /**
- * Fast path for one gap between two convex branches, from the gap of a nearby temperature:
+ * The point of branch `br` where g' = m, the same bits from any estimate within a few cells of it:
+ * Newton in its sign cell (roots.ts). Undefined if that cell is not found or leaves the branch.
+ */
+function canonicalSlopePoint(iso: Isotherm, br: Branch, m: number, estimate: number): number | undefined {
+  solveIso = iso;
+  solveM = m;
+  const cell = signCell(slopeGap, estimate, innerCell);
+  if (!cell || !(cell.a > br.a && cell.b < br.b)) return undefined;
+  return cellNewton(slopeGapNewton, cell, innerSlope);
+}
+
+/**
+ * G(u1) = mu_A(u1) - mu_A(u2) with u2 on the partner branch where g'(u2) = g'(u1), and (with `out`)
+ * dG/du1 = c1 (x2 - x1); NaN where u2 cannot be found.
+ */
+function tangentGap(u: number, out?: Float64Array): number {
+  const iso = solveIso;
+  splitRatio(u, xyCell);
+  const x1 = xyCell[0], y1 = xyCell[1];
+  const m = iso.dg(x1, y1);
+  const mu1 = iso.g(x1, y1) - x1 * m;
+  const c1 = x1 * y1 * iso.d2g(x1, y1);
+  const v = canonicalSlopePoint(iso, partnerBranch, m, partnerEstimate);
+  if (v === undefined) return NaN;
+  partnerEstimate = v; // the next point is near (the answer does not depend on the estimate)
+  splitRatio(v, xyCell);
+  const x2 = xyCell[0], y2 = xyCell[1];
+  if (out) out[0] = c1 * (x2 - x1);
+  return mu1 - (iso.g(x2, y2) - x2 * m);
+}
+
+/**
+ * The gap between branches j and k, the same bits from any estimate (u1, u2) close to it: what a
+ * warm start or the sweep found only chooses where the work starts. In u1 on branch j, with u2 on
+ * branch k where g'(u2) = g'(u1) (canonicalSlopePoint), the common tangent is the root of
+ *   G(u1) = mu_A(u1) - mu_A(u2),  dG/du1 = c1 (x2 - x1) > 0  (c = x y g''),
+ * solved by Newton in its sign cell (roots.ts). Undefined when a cell is not found (the caller
+ * keeps its own answer or solves again from scratch), or near U_LIMIT (its own solve says why).
+ */
+export function canonicalGap(iso: Isotherm, j: Branch, k: Branch, u1: number, u2: number): Gap | undefined {
+  if (!(Math.abs(u1) < U_LIMIT - 1 && Math.abs(u2) < U_LIMIT - 1)) return undefined;
+  solveIso = iso;
+  partnerBranch = k;
+  partnerEstimate = u2;
+  const cell = signCell(tangentGap, u1, outerCell);
+  if (!cell || !(cell.a > j.a && cell.b < j.b)) return undefined;
+  const root = cellNewton(tangentGap, cell, outerSlope);
+  if (root === undefined) return undefined;
+  const low = pointAt(root);
+  const slope = iso.dg(low.x, low.y);
+  const v = canonicalSlopePoint(iso, k, slope, u2);
+  if (v === undefined) return undefined;
+  return { low, high: pointAt(v), slope };
+}
+
+/**
+ * An estimate of the one gap between two convex branches, from the gap of a nearby temperature:
  * Newton on the common-tangent equations in (u', u'') jointly,
  *   G1 = g'(x') - g'(x'') = 0,  G2 = mu_A(x') - mu_A(x'') = 0,
- * with d g'/du = c = x y g'' and d mu_A/du = -x c. With two branches the tangent between them is
- * unique (F above is monotone), so a converged answer with x' left of the spinodal interval
- * [s1, s2] and x'' right of it is the gap. Returns undefined to fall back to the sweep.
+ * with d g'/du = c = x y g'' and d mu_A/du = -x c, until a step is below ESTIMATE (quadratic
+ * convergence: the error is then of order 1e-8, within a cell or two of canonicalGap, which ends it).
+ * With two branches the tangent between them is unique (F above is monotone), so an answer with
+ * x' left of the spinodal interval [s1, s2] and x'' right of it is the gap. Writes (u', u'') into
+ * `tangentEstimate` and returns true, or false to fall back to the sweep.
  */
-function tangentNewton(iso: Isotherm, start: Gap, s1: number, s2: number): Gap | undefined {
+function tangentNewton(iso: Isotherm, start: Gap, s1: number, s2: number): boolean {
   let u1 = start.low.u, u2 = start.high.u;
   for (let iter = 0; iter < 8; iter++) {
-    if (!(u1 < s1 && u2 > s2)) return undefined;
-    if (!(u1 > -U_LIMIT && u2 < U_LIMIT)) return undefined; // the full solve says why (1e-300)
-    const p1 = pointAt(u1), p2 = pointAt(u2);
-    const d1 = iso.dg(p1.x, p1.y), d2 = iso.dg(p2.x, p2.y);
+    if (!(u1 < s1 && u2 > s2)) return false;
+    if (!(u1 > -U_LIMIT && u2 < U_LIMIT)) return false; // the full solve says why (DILUTE_LIMIT)
+    splitRatio(u1, xyCell);
+    const x1 = xyCell[0], y1 = xyCell[1];
+    splitRatio(u2, xyCell);
+    const x2 = xyCell[0], y2 = xyCell[1];
+    const d1 = iso.dg(x1, y1), d2 = iso.dg(x2, y2);
     const G1 = d1 - d2;
-    const G2 = iso.g(p1.x, p1.y) - p1.x * d1 - (iso.g(p2.x, p2.y) - p2.x * d2);
-    const c1 = p1.x * p1.y * iso.d2g(p1.x, p1.y), c2 = p2.x * p2.y * iso.d2g(p2.x, p2.y);
+    const G2 = iso.g(x1, y1) - x1 * d1 - (iso.g(x2, y2) - x2 * d2);
+    const c1 = x1 * y1 * iso.d2g(x1, y1), c2 = x2 * y2 * iso.d2g(x2, y2);
     // c1 du1 - c2 du2 = -G1;  -x1 c1 du1 + x2 c2 du2 = -G2
-    const b = -(G2 + p1.x * G1) / (p2.x - p1.x);
+    const b = -(G2 + x1 * G1) / (x2 - x1);
     const a = b - G1;
     const du1 = a / c1, du2 = b / c2;
-    if (!Number.isFinite(du1) || !Number.isFinite(du2)) return undefined;
+    if (!Number.isFinite(du1) || !Number.isFinite(du2)) return false;
     u1 += du1;
     u2 += du2;
-    // Newton converges quadratically here: after a step below 1e-12 the error is below 1e-20.
-    if (Math.abs(du1) <= 1e-12 * Math.max(1, Math.abs(u1)) && Math.abs(du2) <= 1e-12 * Math.max(1, Math.abs(u2))) {
-      if (!(u1 < s1 && u2 > s2)) return undefined;
-      const low = pointAt(u1), high = pointAt(u2);
-      return { low, high, slope: iso.dg(low.x, low.y) };
+    if (Math.abs(du1) <= ESTIMATE * Math.max(1, Math.abs(u1)) && Math.abs(du2) <= ESTIMATE * Math.max(1, Math.abs(u2))) {
+      if (!(u1 < s1 && u2 > s2)) return false;
+      tangentEstimate[0] = u1;
+      tangentEstimate[1] = u2;
+      return true;
     }
   }
-  return undefined;
+  return false;
 }
+const tangentEstimate = new Float64Array(2);
 
 /** The convex stretches of g around the unstable intervals bounded by `spinodal`, from low x. */
 export function convexBranches(iso: Isotherm, spinodal: Point[]): Branch[] {
@@ -169,7 +274,7 @@ export function convexBranches(iso: Isotherm, spinodal: Point[]): Branch[] {
   function branch(a: Point | undefined, b: Point | undefined): Branch {
     const ua = a ? a.u : -Infinity, ub = b ? b.u : Infinity;
     const guess = a && b ? 0.5 * (ua + ub) : a ? ua + 1 : b ? ub - 1 : 0;
-    return { a: ua, b: ub, mA: a ? slopeAt(a) : -Infinity, mB: b ? slopeAt(b) : Infinity, guess };
+    return { a: ua, b: ub, slopeLow: a ? slopeAt(a) : -Infinity, slopeHigh: b ? slopeAt(b) : Infinity, guess };
   }
 }
 
@@ -179,7 +284,7 @@ function tangentHeight(iso: Isotherm, br: Branch, m: number): { h: number; x: nu
     const p = pointAt(solveSlope(iso, br, m));
     return { h: muA(iso, p.x, p.y), x: p.x };
   } catch (e) {
-    // A trial slope whose point lies beyond 1e-300 of a pure component: there the tangent of
+    // A trial slope whose point lies beyond U_LIMIT (closer than DILUTE_LIMIT to a pure component): there the tangent of
     // slope m touches g at the end itself, to every digit: x = 0, h = 0, or x = 1, h = g(1) - m = -m.
     // (The slope finally chosen is solved again, and fails properly if its point is out of range.)
     if (!(e instanceof MixgapError && e.reason === 'range')) throw e;
@@ -193,8 +298,8 @@ function tangentHeight(iso: Isotherm, br: Branch, m: number): { h: number; x: nu
  * dF/dm = x_k - x_j, started at `m0` when given.
  */
 function crossing(iso: Isotherm, j: Branch, k: Branch, mFrom: number, sure: boolean, m0?: number): number | undefined {
-  let lo = Math.max(j.mA, k.mA, mFrom);
-  let hi = Math.min(j.mB, k.mB);
+  let lo = Math.max(j.slopeLow, k.slopeLow, mFrom);
+  let hi = Math.min(j.slopeHigh, k.slopeHigh);
   if (!(lo < hi)) return undefined;
   const F = (m: number) => {
     const pj = tangentHeight(iso, j, m), pk = tangentHeight(iso, k, m);
@@ -202,7 +307,10 @@ function crossing(iso: Isotherm, j: Branch, k: Branch, mFrom: number, sure: bool
   };
   let m = m0 !== undefined && m0 > lo && m0 < hi ? m0 : 0.5 * (lo + hi);
   if (!sure) {
-    if (F(hi).F < 0) return undefined; // branch j stays below branch k over the whole overlap
+    // Branch j stays below branch k over the whole overlap: no crossing. (A value below zero
+    // within the rounding of F, where both points lie within 1e-13 of the same pure component and
+    // F hardly rises, does not say so: the root search below decides.)
+    if (F(hi).F < -SLOPE_STEP * (iso.RT + Math.abs(lo) + Math.abs(hi))) return undefined;
     const atLo = F(lo);
     if (atLo.F >= 0) return lo;
     if (m0 === undefined) {
@@ -218,7 +326,7 @@ function crossing(iso: Isotherm, j: Branch, k: Branch, mFrom: number, sure: bool
     if (f < 0) lo = m; else hi = m;
     let next = m - f / dF;
     if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-    if (Math.abs(next - m) <= 1e-15 * scale || hi - lo <= 4e-16 * scale) {
+    if (Math.abs(next - m) <= SLOPE_STEP * scale || hi - lo <= BRACKET_WIDTH * scale) {
       // Pinned against an end of the overlap: there was no sign change, so no tangent.
       if (next - lo0 <= 1e-9 * (hi0 - lo0) || hi0 - next <= 1e-9 * (hi0 - lo0)) {
         return fail('convergence', msg`no common tangent between the convex stretches at T = ${kelvin(iso.T)}`);
@@ -233,17 +341,15 @@ function crossing(iso: Isotherm, j: Branch, k: Branch, mFrom: number, sure: bool
 /** Scratch for x and y in solveSlope's loop. */
 const xy = new Float64Array(2);
 
-/** |u| at which x (or 1 - x) reaches 1e-304: beyond, compositions are not representable with precision. */
-const U_LIMIT = 700;
 
 /**
  * The u on branch `br` where g'(u) = m: g' is increasing there (d g'/du = x y g'' >= 0).
  * Safeguarded Newton in u, with the bracket widened towards a dilute end when the branch is open.
  */
 export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
-  if (m >= br.mB) return br.b;
-  if (m <= br.mA) return br.a;
-  const tooDilute = () => fail('range', msg`a tangent point (gap boundary) lies closer than 1e-300 to a pure component at T = ${kelvin(iso.T)}`);
+  if (m >= br.slopeHigh) return br.b;
+  if (m <= br.slopeLow) return br.a;
+  const tooDilute = () => fail('range', msg`a tangent point (gap boundary) lies closer than ${DILUTE_LIMIT} to a pure component at T = ${kelvin(iso.T)}`);
   let lo = br.a, hi = br.b;
   let u = Math.min(Math.max(br.guess, lo), hi);
   if (!Number.isFinite(u)) u = 0;
@@ -254,9 +360,9 @@ export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
     if (f === 0) { br.guess = u; return u; }
     if (f < 0) lo = u; else hi = u;
     const step = f / (x * y * iso.d2g(x, y));
-    // Newton converges quadratically here: after a step below 1e-12 the error is below 1e-20.
+    // Newton converges quadratically here: after a step below NEWTON_STEP (1e-12) the error is below 1e-20.
     // (Tested on the raw step: one that lands within an ulp of the root may touch the bracket.)
-    if (Math.abs(step) <= 1e-12 * Math.max(1, Math.abs(u))) {
+    if (Math.abs(step) <= NEWTON_STEP * Math.max(1, Math.abs(u))) {
       const root = Math.min(Math.max(u - step, lo), hi);
       if (Math.abs(root) >= U_LIMIT) tooDilute();
       br.guess = root;
@@ -275,7 +381,7 @@ export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
       if (Math.abs(u) === U_LIMIT) tooDilute();
       next = next < 0 ? -U_LIMIT : U_LIMIT;
     }
-    if (hi - lo <= 4e-16 * Math.max(1, Math.abs(u))) {
+    if (hi - lo <= BRACKET_WIDTH * Math.max(1, Math.abs(u))) {
       if (Math.abs(next) >= U_LIMIT) tooDilute();
       br.guess = next;
       return next;
@@ -288,29 +394,38 @@ export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
 /**
  * The phase map at a temperature next to `prev`, when the caller knows that no critical point lies
  * between the two temperatures (so no gap opens or closes and no unstable interval appears): the
- * spinodal points are followed by Newton's method on q and the gap by `tangentNewton`. Covers the
- * common cases of no gap and of one gap over one unstable interval; returns undefined (the caller
- * then solves from scratch) for anything else or when a step does not settle.
+ * spinodal points are followed by Newton's method on q and the gap by `tangentNewton`, and each
+ * then ends in the same final solve as phaseMap's (spinodalRootNear, canonicalGap), so the answer
+ * is phaseMap's, bit for bit, whatever `prev` was. Covers the common cases of no gap and of one
+ * gap over one unstable interval; returns undefined (the caller then solves from scratch) for
+ * anything else or when a step does not settle.
  */
 export function continueMap(iso: Isotherm, prev: PhaseMap): PhaseMap | undefined {
   if (prev.spinodal.length === 0 && prev.gaps.length === 0) return { T: iso.T, gaps: [], spinodal: [] };
   if (prev.spinodal.length !== 2 || prev.gaps.length !== 1) return undefined;
-  const s1 = followRoot(iso, prev.spinodal[0].u), s2 = followRoot(iso, prev.spinodal[1].u);
+  const e1 = followRoot(iso, prev.spinodal[0].u), e2 = followRoot(iso, prev.spinodal[1].u);
+  if (e1 === undefined || e2 === undefined) return undefined;
+  const s1 = spinodalRootNear(iso, e1), s2 = spinodalRootNear(iso, e2);
   if (s1 === undefined || s2 === undefined || !(s1 < s2)) return undefined;
-  const gap = tangentNewton(iso, prev.gaps[0], s1, s2);
-  return gap && { T: iso.T, gaps: [gap], spinodal: [pointAt(s1), pointAt(s2)] };
+  const spinodal = [pointAt(s1), pointAt(s2)];
+  const [j, k] = convexBranches(iso, spinodal);
+  if (nearCritical(iso, j, k)) return { T: iso.T, gaps: [criticalGap(iso, s1, s2)], spinodal };
+  const gap = tangentNewton(iso, prev.gaps[0], s1, s2) ? canonicalGap(iso, j, k, tangentEstimate[0], tangentEstimate[1]) : undefined;
+  return gap && { T: iso.T, gaps: [gap], spinodal };
 }
 
-/** A root of q = x y g''/RT near u, by Newton's method (undefined if it does not settle nearby). */
+/** An estimate of the root of q = x y g''/RT near u, by Newton's method (undefined if it does not settle nearby). */
 function followRoot(iso: Isotherm, u: number): number | undefined {
   const start = u;
   for (let iter = 0; iter < 12; iter++) {
-    const p = pointAt(u);
-    const step = curvature(iso, p) / curvatureSlope(iso, p);
+    splitRatio(u, xyCell);
+    const x = xyCell[0], y = xyCell[1], d2 = iso.d2g(x, y);
+    // q / (dq/du) = g'' / ((y - x) g'' + x y g''')
+    const step = d2 / ((y - x) * d2 + x * y * iso.d3g(x, y));
     if (!Number.isFinite(step)) return undefined;
     u -= step;
     if (Math.abs(u - start) > 0.5) return undefined;
-    if (Math.abs(step) <= 1e-12 * Math.max(1, Math.abs(u))) return u; // quadratic: error now < 1e-20
+    if (Math.abs(step) <= ESTIMATE * Math.max(1, Math.abs(u))) return u; // an estimate: error now of order 1e-8
   }
   return undefined;
 }

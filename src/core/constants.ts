@@ -12,6 +12,5 @@ export const ELECTRONVOLT = 1.602176634e-19;
 /** Thermochemical calorie in J (exact by definition). */
 export const CALORIE = 4.184;
 
-/** The temperature window in which Mixgap looks for critical points and gap temperatures, K. */
-export const T_SEARCH_MIN = 1;
-export const T_SEARCH_MAX = 20000;
+/** The temperature window in which Mixgap looks for critical points and gap temperatures, K (see limits.ts). */
+export { T_SEARCH_MAX, T_SEARCH_MIN } from './limits';

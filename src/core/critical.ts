@@ -1,5 +1,5 @@
 import { phaseMap } from './binodal';
-import { T_SEARCH_MAX, T_SEARCH_MIN } from './constants';
+import { T_SEARCH_MAX, T_SEARCH_MIN } from './limits';
 import { curvature, curvatureMap, refineExtremum } from './curvature';
 import { fail, kelvin, msg } from './errors';
 import type { BinaryModel, Isotherm, Point } from './model';
@@ -14,8 +14,31 @@ export interface CriticalPoint {
   kind: 'upper' | 'lower';
 }
 
-/** Temperatures sampled between 1 K and 20000 K, evenly in ln T (steps of 3.4 %). */
+/** Temperatures sampled between T_SEARCH_MIN and T_SEARCH_MAX, evenly in ln T (steps of 3.4 %). */
 const SAMPLES = 300;
+/** Relative tolerance in T of a critical temperature (Brent's method on the depth of a minimum). */
+const T_TOLERANCE = 1e-13;
+/** A followed minimum whose scaled depth |q| / scale stays below this at a sampled extremum in T may dip through zero between samples. */
+const DIP_DEPTH = 0.2;
+/** Relative tolerance in T of the extremum of such a dip (it only needs to split the interval). */
+const DIP_TOLERANCE = 1e-9;
+/** Bisections on T where the number of unstable intervals changes: down to FOLD_WIDTH T, at most FOLD_STEPS of them. */
+const FOLD_STEPS = 80;
+const FOLD_WIDTH = 1e-12;
+/** Two points closer than these (relative in T, absolute in x) are one. */
+const SAME_T = 1e-9;
+const SAME_X = 1e-6;
+/** Without a pairing by order, a minimum is followed to the nearest one within FOLLOW_REACH (1 + |u|/4) in u: near a dilute end u moves fast. */
+const FOLLOW_REACH = (u: number) => 1 + 0.25 * Math.abs(u);
+/** A minimum is searched from +-MINIMUM_HALF_WIDTH in u around where it was, widened up to MINIMUM_WIDENINGS times, to MINIMUM_TOLERANCE in u. */
+const MINIMUM_HALF_WIDTH = 0.5;
+const MINIMUM_WIDENINGS = 10;
+const MINIMUM_TOLERANCE = 1e-14;
+/** closesThere looks at the gap CLOSE_STEP Tc and a quarter of that from Tc: close enough for the leading order, far enough for the rounding of the widths. */
+const CLOSE_STEP = 1e-4;
+/** A gap that closes like sqrt(|T - Tc|) has width ratio 1/2 between a quarter and the whole step; these bounds leave room for the next order. */
+const CLOSE_RATIO_MIN = 0.3;
+const CLOSE_RATIO_MAX = 0.7;
 
 /** A local minimum of q = x y g''/RT (relative to its end values) followed over temperature. */
 interface Track {
@@ -23,29 +46,40 @@ interface Track {
   q: number;
 }
 
+/** A candidate critical point: where a followed minimum of q crosses zero. */
+interface Candidate {
+  T: number;
+  u: number;
+  kind: 'upper' | 'lower';
+}
+
 /**
- * Every critical point between 1 K and 20000 K, highest temperature first.
+ * Every critical point between T_SEARCH_MIN and T_SEARCH_MAX, highest temperature first.
  *
  * At a critical point a local minimum of the scaled curvature q(u) = x y g''/RT passes through
- * zero (then g'' = 0 and dq/du = 0, i.e. g''' = 0). The local minima of q are followed over
- * temperatures sampled evenly in ln T; where one changes sign, the temperature at which it is
- * zero is found by Brent's method, minimising q near the followed position at each trial T.
- * A minimum that dips below zero and comes back between samples (a small closed loop) is caught
- * by minimising its depth over T where the sampled depths have a local minimum close to zero.
- * A point found this way is kept only if the gap really closes there (its width shrinks towards
- * it like a square root), which excludes metastable points inside a wider stable gap.
+ * zero (then g'' = 0 and dq/du = 0, i.e. g''' = 0). In named steps:
+ *   1. sampleMinima: the local minima of q at temperatures sampled evenly in ln T;
+ *   2. signChanges: where a followed minimum changes sign between two samples, the temperature at
+ *      which it is zero, by Brent's method (minimising q near the followed position at each trial T);
+ *   3. dips: a minimum that dips below zero and comes back between samples (a small closed loop),
+ *      caught by minimising its depth over T where the sampled depths have an extremum near zero;
+ *   4. folds: a minimum that appears (in a fold, with q > 0) and crosses zero between two samples,
+ *      where the number of unstable intervals changes and steps 2-3 found nothing;
+ *   5. confirm: a point is kept only if the gap really closes there (its width shrinks towards it
+ *      like a square root), which excludes metastable points inside a wider stable gap.
  */
 export function criticalPoints(model: BinaryModel, Tmin = T_SEARCH_MIN, Tmax = T_SEARCH_MAX): CriticalPoint[] {
   const Ts: number[] = [];
   for (let i = 0; i < SAMPLES; i++) Ts.push(Tmin * Math.pow(Tmax / Tmin, i / (SAMPLES - 1)));
-  // Unstable intervals at T (-1 where g'' cannot be followed: parameters far too large for it).
-  const spinodalAt = (T: number): Point[] | undefined => {
-    try {
-      return curvatureMap(model.at(T), false).spinodal;
-    } catch {
-      return undefined;
-    }
-  };
+  const { minimaAt, intervals } = sampleMinima(model, Ts);
+  const found: Candidate[] = [];
+  signChangesAndDips(model, Ts, minimaAt, found);
+  folds(model, Ts, intervals, found);
+  return confirm(model, found);
+}
+
+/** Step 1: the local minima of q at each sampled temperature (scaled by q's end values), and the number of unstable intervals (-1 where g'' cannot be followed: parameters far too large there). */
+function sampleMinima(model: BinaryModel, Ts: number[]): { minimaAt: Track[][]; intervals: number[] } {
   const intervals: number[] = [];
   const minimaAt = Ts.map((T) => {
     try {
@@ -57,61 +91,81 @@ export function criticalPoints(model: BinaryModel, Tmin = T_SEARCH_MIN, Tmax = T
       return [];
     }
   });
+  return { minimaAt, intervals };
+}
 
-  const found: Array<{ T: number; u: number; kind: 'upper' | 'lower' }> = [];
-  const depth = (T: number, u: number) => localMinimum(model.at(T), u);
-  const rootBetween = (Ta: number, Tb: number, u: number) => {
-    let uNow = u;
-    const f = (T: number) => {
-      const m = depth(T, uNow);
-      uNow = m.u;
-      return m.q;
-    };
-    const fa = f(Ta), fb = f(Tb);
-    if (fa < 0 === fb < 0) return; // the followed minimum went elsewhere between samples
-    uNow = u;
-    const T = brentRoot(f, Ta, Tb, fa, fb, 1e-13 * Tb);
-    if (Number.isNaN(T)) return;
-    const m = depth(T, uNow);
-    found.push({ T, u: m.u, kind: fa < 0 ? 'upper' : 'lower' });
+/** The depth q of the local minimum of q nearest to u at T. */
+function depth(model: BinaryModel, T: number, u: number): { u: number; q: number } {
+  return localMinimum(model.at(T), u);
+}
+
+/**
+ * Step 2's root: the temperature between Ta and Tb at which the minimum followed from u is zero,
+ * added to `found` (nothing if it does not change sign there: it went elsewhere between samples).
+ */
+function rootBetween(model: BinaryModel, Ta: number, Tb: number, u: number, found: Candidate[]): void {
+  let uNow = u;
+  const f = (T: number) => {
+    const m = depth(model, T, uNow);
+    uNow = m.u;
+    return m.q;
   };
+  const fa = f(Ta), fb = f(Tb);
+  if (fa < 0 === fb < 0) return;
+  uNow = u;
+  const T = brentRoot(f, Ta, Tb, fa, fb, T_TOLERANCE * Tb);
+  if (Number.isNaN(T)) return;
+  const m = depth(model, T, uNow);
+  found.push({ T, u: m.u, kind: fa < 0 ? 'upper' : 'lower' });
+}
 
-  for (let i = 0; i + 1 < SAMPLES; i++) {
+/** Steps 2 and 3: sign changes of each followed minimum between samples, and dips through zero between them. */
+function signChangesAndDips(model: BinaryModel, Ts: number[], minimaAt: Track[][], found: Candidate[]): void {
+  for (let i = 0; i + 1 < Ts.length; i++) {
     for (const [index, a] of minimaAt[i].entries()) {
       const b = follow(minimaAt[i], minimaAt[i + 1], index);
       if (!b) continue;
-      if (a.q < 0 !== b.q < 0) rootBetween(Ts[i], Ts[i + 1], a.u);
+      if (a.q < 0 !== b.q < 0) rootBetween(model, Ts[i], Ts[i + 1], a.u, found);
       // a dip (or a bump) between samples: depth near zero with a local extremum in T
-      const c = i + 2 < SAMPLES ? follow(minimaAt[i + 1], minimaAt[i + 2], minimaAt[i + 1].indexOf(b)) : undefined;
-      if (c && b.q < 0 === a.q < 0 && b.q < 0 === c.q < 0 && Math.abs(b.q) < 0.2) {
-        const sign = b.q > 0 ? 1 : -1;
-        if (sign * (a.q - b.q) > 0 && sign * (c.q - b.q) > 0) {
-          let uNow = b.u;
-          const extreme = brentMin((T) => {
-            const m = depth(T, uNow);
-            uNow = m.u;
-            return sign * m.q;
-          }, Ts[i], Ts[i + 2], 1e-9 * Ts[i + 2]);
-          const qx = sign * extreme.f;
-          if (qx < 0 !== b.q < 0) {
-            rootBetween(Ts[i], extreme.t, a.u);
-            rootBetween(extreme.t, Ts[i + 2], uNow);
-          }
-        }
+      const c = i + 2 < Ts.length ? follow(minimaAt[i + 1], minimaAt[i + 2], minimaAt[i + 1].indexOf(b)) : undefined;
+      if (!(c && b.q < 0 === a.q < 0 && b.q < 0 === c.q < 0 && Math.abs(b.q) < DIP_DEPTH)) continue;
+      const sign = b.q > 0 ? 1 : -1;
+      if (!(sign * (a.q - b.q) > 0 && sign * (c.q - b.q) > 0)) continue;
+      let uNow = b.u;
+      const extreme = brentMin((T) => {
+        const m = depth(model, T, uNow);
+        uNow = m.u;
+        return sign * m.q;
+      }, Ts[i], Ts[i + 2], DIP_TOLERANCE * Ts[i + 2]);
+      if (sign * extreme.f < 0 !== b.q < 0) {
+        rootBetween(model, Ts[i], extreme.t, a.u, found);
+        rootBetween(model, extreme.t, Ts[i + 2], uNow, found);
       }
     }
   }
+}
 
-  // A minimum can appear (in a fold, with q > 0) and cross zero between two samples, where no
-  // minimum was there to follow. Wherever the number of unstable intervals changes between two
-  // samples and no critical point was found, bisect on T down to 1e-12 and look at the interval
-  // that appears: if q > 0 at its middle on the other side, a minimum crossed zero there.
-  for (let i = 0; i + 1 < SAMPLES; i++) {
+/**
+ * Step 4: a minimum can appear (in a fold, with q > 0) and cross zero between two samples, where no
+ * minimum was there to follow. Wherever the number of unstable intervals changes between two
+ * samples and no critical point was found, bisect on T down to FOLD_WIDTH and look at the interval
+ * that appears: if q > 0 at its middle on the other side, a minimum crossed zero there.
+ */
+function folds(model: BinaryModel, Ts: number[], intervals: number[], found: Candidate[]): void {
+  // Unstable intervals at T (undefined where g'' cannot be followed).
+  const spinodalAt = (T: number): Point[] | undefined => {
+    try {
+      return curvatureMap(model.at(T), false).spinodal;
+    } catch {
+      return undefined;
+    }
+  };
+  for (let i = 0; i + 1 < Ts.length; i++) {
     if (intervals[i] < 0 || intervals[i + 1] < 0 || intervals[i] === intervals[i + 1]) continue;
     if (found.some((f) => f.T >= Ts[i] && f.T <= Ts[i + 1])) continue;
     let lo = Ts[i], hi = Ts[i + 1];
     let sLo = spinodalAt(lo), sHi = spinodalAt(hi);
-    for (let k = 0; k < 80 && sLo && sHi && hi - lo > 1e-12 * hi; k++) {
+    for (let k = 0; k < FOLD_STEPS && sLo && sHi && hi - lo > FOLD_WIDTH * hi; k++) {
       const mid = 0.5 * (lo + hi);
       const sMid = spinodalAt(mid);
       if (!sMid) break;
@@ -122,36 +176,38 @@ export function criticalPoints(model: BinaryModel, Tmin = T_SEARCH_MIN, Tmax = T
     const other = model.at(lessT);
     for (let j = 0; j < more.length; j += 2) {
       const u = 0.5 * (more[j].u + more[j + 1].u);
-      if (curvature(other, pointAt(u)) > 0) rootBetween(lo, hi, u);
+      if (curvature(other, pointAt(u)) > 0) rootBetween(model, lo, hi, u, found);
     }
   }
+}
 
+/** Step 5: candidates once each (SAME_T, SAME_X), kept where the gap really closes; highest temperature first, points at the same temperature (symmetric domes) from low x. */
+function confirm(model: BinaryModel, found: Candidate[]): CriticalPoint[] {
   const points: CriticalPoint[] = [];
   for (const f of found) {
-    if (points.some((p) => Math.abs(p.T - f.T) < 1e-9 * f.T && Math.abs(pointAt(f.u).x - p.x) < 1e-6)) continue;
+    if (points.some((p) => Math.abs(p.T - f.T) < SAME_T * f.T && Math.abs(pointAt(f.u).x - p.x) < SAME_X)) continue;
     if (closesThere(model, f.T, f.u, f.kind)) points.push({ T: f.T, x: pointAt(f.u).x, kind: f.kind });
   }
-  // highest temperature first; points at the same temperature (symmetric domes) from low x
-  return points.sort((p, q) => (Math.abs(p.T - q.T) <= 1e-9 * p.T ? p.x - q.x : q.T - p.T));
+  return points.sort((p, q) => (Math.abs(p.T - q.T) <= SAME_T * p.T ? p.x - q.x : q.T - p.T));
 }
 
 /**
  * The minimum at the next sampled temperature that minimum `index` became. Local minima of q do
  * not cross one another, so with as many minima at both temperatures they pair in order of u,
  * however far they moved (near a dilute end u moves fast). Otherwise the nearest one, if within
- * 1 + |u|/4 in u.
+ * FOLLOW_REACH in u.
  */
 function follow(from: Track[], to: Track[], index: number): Track | undefined {
   if (from.length === to.length) return to[index];
   const u = from[index].u;
   let best: Track | undefined;
-  for (const m of to) if (Math.abs(m.u - u) < 1 + 0.25 * Math.abs(u) && (!best || Math.abs(m.u - u) < Math.abs(best.u - u))) best = m;
+  for (const m of to) if (Math.abs(m.u - u) < FOLLOW_REACH(u) && (!best || Math.abs(m.u - u) < Math.abs(best.u - u))) best = m;
   return best;
 }
 
-/** The local minimum of q nearest to u (searched from +-0.5 in u outwards: it may have moved far). */
+/** The local minimum of q nearest to u (searched from +-MINIMUM_HALF_WIDTH in u outwards: it may have moved far). */
 function localMinimum(iso: Isotherm, u: number): { u: number; q: number } {
-  return refineExtremum(iso, u - 0.5, u + 0.5, 1, 10, 1e-14);
+  return refineExtremum(iso, u - MINIMUM_HALF_WIDTH, u + MINIMUM_HALF_WIDTH, 1, MINIMUM_WIDENINGS, MINIMUM_TOLERANCE);
 }
 
 /**
@@ -171,13 +227,13 @@ function closesThere(model: BinaryModel, Tc: number, u: number, kind: 'upper' | 
       return NaN;
     }
   };
-  const dT = 1e-4 * Tc;
+  const dT = CLOSE_STEP * Tc;
   const wide = width(dT), narrow = width(dT / 4);
   if (!(wide > 0 && narrow > 0)) return false;
   // and on the other side the gap must be gone (no gap around xc)
   if (width(-dT) > 0) return false;
   const ratio = narrow / wide;
-  return ratio > 0.3 && ratio < 0.7;
+  return ratio > CLOSE_RATIO_MIN && ratio < CLOSE_RATIO_MAX;
 }
 
 /** The critical point numbered n (1 = highest temperature). */

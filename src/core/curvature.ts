@@ -1,7 +1,8 @@
 import { fail, kelvin, msg } from './errors';
 import type { Isotherm, Point } from './model';
 import { pointAt, splitRatio } from './model';
-import { brentMin, brentRoot, newtonRoot } from './roots';
+import { CURVATURE_RANGES as RANGES, DILUTE_LIMIT } from './limits';
+import { brentMin, brentRoot, cellNewton, signCell, type SignCell } from './roots';
 
 /**
  * Scaled curvature q(u) = x y g''(x) / (R T) as a function of u = ln(x / y).
@@ -80,8 +81,6 @@ function gridFor(U: number): Grid {
 /** Scratch space for the sampled q (analyse() reads it before any further call can overwrite it). */
 const qBuffer = new Float64Array(256);
 
-/** The sampling ranges tried in turn; the widest reaches x = 1e-304. */
-const RANGES = [40, 160, 700];
 
 /**
  * Finds every spinodal point (root of g'') and every local minimum of q at one temperature.
@@ -90,7 +89,7 @@ const RANGES = [40, 160, 700];
  * With `refineAll` false, minima that are already negative are not refined (the binodal solver
  * does not need their depth).
  */
-export function curvatureMap(iso: Isotherm, refineAll = true, near?: readonly Point[]): CurvatureMap {
+export function curvatureMap(iso: Isotherm, refineAll = true): CurvatureMap {
   for (const U of RANGES) {
     const { points, x, y } = gridFor(U);
     const n = points.length;
@@ -100,31 +99,19 @@ export function curvatureMap(iso: Isotherm, refineAll = true, near?: readonly Po
       if (Number.isNaN(q[0]) || Number.isNaN(q[n - 1])) fail('range', msg`the model overflows at T = ${kelvin(iso.T)}: its parameters are too large for this temperature`);
       continue; // still unstable at the sampled ends: sample wider
     }
-    return analyse(iso, points, q, refineAll, near);
+    return analyse(iso, points, q, refineAll);
   }
-  return fail('range', msg`the solution is unstable even at x = 1e-304 at T = ${kelvin(iso.T)}: the parameters are too large for this temperature`);
+  return fail('range', msg`the solution is unstable even at x = ${DILUTE_LIMIT} at T = ${kelvin(iso.T)}: the parameters are too large for this temperature`);
 }
 
-/** `near`: spinodal points of a nearby temperature; a root in the same sampling cell starts Newton there. */
-function analyse(iso: Isotherm, points: Point[], q: Float64Array, refineAll: boolean, near?: readonly Point[]): CurvatureMap {
+function analyse(iso: Isotherm, points: Point[], q: Float64Array, refineAll: boolean): CurvatureMap {
   const spinodal: Point[] = [];
   const minima: CurvatureMinimum[] = [];
   const scale = Math.min(q[0], q[q.length - 1]);
   // q and dq/du at u, without Point objects (these run in root searches)
   const xy = new Float64Array(2);
-  const qdq = (u: number, out?: Float64Array) => {
-    splitRatio(u, xy);
-    if (out) out[0] = scaledCurvatureSlope(iso, xy[0], xy[1]);
-    return scaledCurvature(iso, xy[0], xy[1]);
-  };
-  const qAt = (u: number) => qdq(u);
   const root = (u0: number, u1: number, q0: number, q1: number) => {
-    let start: number | undefined;
-    if (near) for (const p of near) if (p.u > u0 && p.u < u1) start = p.u;
-    let u = start !== undefined ? newtonRoot(qdq, u0, u1, q0, start, 1e-14) : NaN;
-    if (Number.isNaN(u)) u = brentRoot(qAt, u0, u1, q0, q1, 1e-14);
-    if (Number.isNaN(u)) fail('convergence', msg`spinodal root search failed at T = ${kelvin(iso.T)}`);
-    spinodal.push(pointAt(u));
+    spinodal.push(pointAt(spinodalRoot(iso, u0, u1, q0, q1)));
   };
   for (let i = 0; i + 1 < q.length; i++) {
     if (q[i] > 0 !== q[i + 1] > 0) root(points[i].u, points[i + 1].u, q[i], q[i + 1]);
@@ -154,6 +141,87 @@ function analyse(iso: Isotherm, points: Point[], q: Float64Array, refineAll: boo
   spinodal.sort((a, b) => a.u - b.u);
   if (spinodal.length % 2 !== 0) fail('convergence', msg`odd number of spinodal points at T = ${kelvin(iso.T)}`);
   return { spinodal, minima, scale };
+}
+
+/**
+ * The root of q in [u0, u1] (q0, q1 of opposite signs), the same bits from any start: Brent's
+ * method to 1e-9 for an estimate, then Newton in the root's 2^-20 cell (canonicalRoot). Two roots
+ * within one cell (next to a critical point) keep Brent's method to 1e-14 on the bracket alone.
+ */
+function spinodalRoot(iso: Isotherm, u0: number, u1: number, q0: number, q1: number): number {
+  const qAt = (t: number) => { splitRatio(t, xyRoot); return scaledCurvature(iso, xyRoot[0], xyRoot[1]); };
+  const rough = brentRoot(qAt, u0, u1, q0, q1, 1e-9);
+  const polished = Number.isNaN(rough) ? undefined : canonicalRoot(iso, rough, q0 > 0 ? -1 : 1);
+  if (polished !== undefined) return polished;
+  const u = brentRoot(qAt, u0, u1, q0, q1, 1e-14);
+  if (Number.isNaN(u)) fail('convergence', msg`spinodal root search failed at T = ${kelvin(iso.T)}`);
+  return u;
+}
+const xyRoot = new Float64Array(2);
+const slopeRoot = new Float64Array(1);
+
+/** State of canonicalRoot's functions, at module level so that they allocate nothing. */
+let rootIso: Isotherm;
+let rootSign = 1;
+const rootCell: SignCell = { a: 0, b: 0, fa: 0, fb: 0 };
+function signedQ(t: number): number {
+  splitRatio(t, xyRoot);
+  return rootSign * scaledCurvature(rootIso, xyRoot[0], xyRoot[1]);
+}
+function signedQNewton(t: number, out: Float64Array): number {
+  splitRatio(t, xyRoot);
+  out[0] = rootSign * scaledCurvatureSlope(rootIso, xyRoot[0], xyRoot[1]);
+  return rootSign * scaledCurvature(rootIso, xyRoot[0], xyRoot[1]);
+}
+
+/**
+ * The root of q near `estimate` where sign * q rises through zero, by Newton's method in its sign
+ * cell (roots.ts): the result depends on the cell alone, not on the estimate.
+ */
+function canonicalRoot(iso: Isotherm, estimate: number, sign: 1 | -1): number | undefined {
+  rootIso = iso;
+  rootSign = sign;
+  const cell = signCell(signedQ, estimate, rootCell);
+  return cell && cellNewton(signedQNewton, cell, slopeRoot);
+}
+
+/** The sampling grid curvatureMap chooses at this temperature (q > 0 at both ends), remembered for the last isotherm asked. */
+function samplingGrid(iso: Isotherm): Grid | undefined {
+  if (iso === gridIso) return gridChosen;
+  gridIso = iso;
+  gridChosen = undefined;
+  for (const U of RANGES) {
+    const grid = gridFor(U), { x, y } = grid, n = x.length;
+    const q0 = scaledCurvature(iso, x[0], y[0]), qn = scaledCurvature(iso, x[n - 1], y[n - 1]);
+    if (q0 > 0 && qn > 0) return (gridChosen = grid);
+    if (Number.isNaN(q0) || Number.isNaN(qn)) break;
+  }
+  return undefined;
+}
+let gridIso: Isotherm | undefined;
+let gridChosen: Grid | undefined;
+
+/**
+ * The spinodal point that curvatureMap would give for a root of q near `estimate`, without
+ * sampling the whole grid: the sampling range curvatureMap would choose (q > 0 at both ends) and
+ * the grid cell holding the estimate; when q changes sign across that cell, the root's final
+ * solve from the estimate (the same bits as curvatureMap's). Undefined when it does not (the root may lie in the
+ * next cell, or two roots share one: the caller samples the whole grid).
+ */
+export function spinodalRootNear(iso: Isotherm, estimate: number): number | undefined {
+  const grid = samplingGrid(iso);
+  if (!grid) return undefined;
+  const { u, x, y } = grid;
+  const n = u.length;
+  if (!(estimate > u[0] && estimate < u[n - 1])) return undefined;
+  let lo = 0, hi = n - 1; // u[lo] < estimate < u[hi]
+  while (hi - lo > 1) {
+    const mid = (lo + hi) >> 1;
+    if (u[mid] < estimate) lo = mid; else hi = mid;
+  }
+  const qa = scaledCurvature(iso, x[lo], y[lo]), qb = scaledCurvature(iso, x[hi], y[hi]);
+  if (qa > 0 === qb > 0) return undefined;
+  return canonicalRoot(iso, estimate, qa > 0 ? -1 : 1) ?? spinodalRoot(iso, u[lo], u[hi], qa, qb);
 }
 
 /**

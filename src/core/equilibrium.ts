@@ -1,6 +1,7 @@
 import { phaseMap, type Gap, type PhaseMap } from './binodal';
 import { criticalPoints, type CriticalPoint } from './critical';
 import { fail, kelvin, msg } from './errors';
+import { WARM_WINDOW } from './limits';
 import type { BinaryModel } from './model';
 import { pointAt } from './model';
 
@@ -88,14 +89,16 @@ export function checkTemperature(T: number): void {
 
 /**
  * Gaps and spinodal at T, solved once and remembered. The last temperature solved for the same
- * model (when within 10 %) seeds the solve: a filled column of temperatures continues from row to row.
+ * model (when within WARM_WINDOW, 10 %) gives the solve its starting points (a filled column of temperatures
+ * continues from row to row); the answer is the same bits without it (phaseMap ends every gap in
+ * the same final solve), so no cell depends on what was calculated before it.
  */
 export function equilibriumAt(model: BinaryModel, T: number): PhaseMap {
   checkTemperature(T);
   const state = modelState(model);
   const known = lookup(state.id, T);
   if (known) return known;
-  const hint = state.last && Math.abs(state.last.T - T) < 0.1 * T ? state.last : undefined;
+  const hint = state.last && Math.abs(state.last.T - T) < WARM_WINDOW * T ? state.last : undefined;
   const map = phaseMap(model.at(T), hint);
   state.last = map;
   store(state.id, map);

@@ -1,5 +1,5 @@
 import { phaseMap, type PhaseMap } from './binodal';
-import { T_SEARCH_MAX, T_SEARCH_MIN } from './constants';
+import { T_SEARCH_MAX, T_SEARCH_MIN } from './limits';
 import type { CriticalPoint } from './critical';
 import { fail, MixgapError, kelvin, msg } from './errors';
 import type { BinaryModel } from './model';
@@ -30,8 +30,8 @@ export function gapTemperature(model: BinaryModel, x0: number, critical: readonl
     try {
       map = phaseMap(model.at(T), hint);
     } catch (e) {
-      // A gap boundary closer than 1e-300 to a pure component: the gap spans every representable
-      // composition on that side, x0 (>= 1e-300, checked above the range of doubles) among them.
+      // A gap boundary beyond U_LIMIT (closer than DILUTE_LIMIT to a pure component): the gap spans
+      // every composition the solvers resolve on that side, x0 among them.
       if (e instanceof MixgapError && e.reason === 'range') return true;
       throw e;
     }

@@ -3,10 +3,9 @@
  * {"model","nrtl";"b12",800;...}) give, through the embedded formula engine and through
  * `mixgap eval --json`, exactly what the cell functions and the core give: binodal, spinodal,
  * critical points, gap temperature, gap table, activities, chemical potentials, driving force.
- * The engine only hands arguments over and results back (smartRounding off), so numbers must
- * come through bit-exact; where a value comes from a solve, a different order of solves can start
- * Newton from a different neighbouring temperature (the solve memory), which changes at most the
- * last bits: 1e-15 relative.
+ * The engine only hands arguments over and results back (smartRounding off), and a solve gives
+ * the same bits whatever was solved before it (test/functions/order-independence.test.ts), so
+ * numbers must come through bit-exact.
  */
 import { spawnSync } from 'child_process';
 import { existsSync } from 'fs';
@@ -103,10 +102,10 @@ function shown(f: () => unknown): unknown {
   }
 }
 
-/** Equal numbers to 1e-15 relative (bit-exact where no solve is involved), equal anything else. */
+/** Equal numbers bit for bit (Object.is: 0 and -0 differ), equal anything else. */
 function expectSame(got: unknown, want: unknown, what: string): void {
   if (typeof want === 'number' && typeof got === 'number') {
-    if (!(Math.abs(got - want) <= 1e-15 * Math.abs(want))) expect.fail(`${what}: got ${got}, want ${want}`);
+    if (!Object.is(got, want)) expect.fail(`${what}: got ${got}, want ${want}`);
     return;
   }
   if (Array.isArray(want) && Array.isArray(got)) {

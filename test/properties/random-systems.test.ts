@@ -8,7 +8,8 @@
  * the spec and its composition derivatives come from forward-mode automatic differentiation of that
  * formula (truncated Taylor arithmetic, `Jet` below), never from the core's hand-derived derivatives.
  * Whatever the solver cannot answer must come back as an error (MixgapError in the core, CellFailure
- * from a cell function), never as a number: errors are allowed, counted and printed.
+ * from a cell function), never as a number: errors are counted, printed and bounded (a floor of
+ * answers per family, and the reasons an error may have), so a solver that gives up cannot pass.
  *
  * Counts printed at the end (console.info): systems tried per family, temperatures solved, errors.
  */
@@ -569,16 +570,34 @@ function checkAll(arb: fc.Arbitrary<Drawn>, seed: number, numRuns: number, check
   expect(failures.slice(0, 8).join('\n\n'), `${failures.length} of ${numRuns} systems failed`).toBe('');
 }
 
+/**
+ * A floor under the errors: the share of temperatures answered with a number, and the reasons an
+ * error may have (a solver that gave up on everything would otherwise pass).
+ */
+function expectAnswered(name: string, minShare: number, allowed: string[] = []): void {
+  const s = counts[name];
+  const tried = s.temperatures + [...s.errors.values()].reduce((a, b) => a + b, 0);
+  const other = [...s.errors].filter(([reason]) => !allowed.includes(reason));
+  expect(other, `${name}: errors other than ${allowed.join(', ') || 'none'}`).toEqual([]);
+  expect(s.temperatures / tried, `${name}: ${s.temperatures} of ${tried} temperatures answered`).toBeGreaterThanOrEqual(minShare);
+}
+
 // Runs per family: thousands of systems in all while the file stays well under a minute.
 describe('binodal, spinodal, gap count and lever rule over random systems', () => {
   it('Redlich–Kister, up to 4 terms with temperature slopes (seed 6001)', () => {
     checkAll(rkArb, 6001, 1500, binodalProperty('Redlich–Kister'), 'Redlich–Kister binodal');
+    // every drawn system stays within what doubles represent: 99 % answered at least (all today)
+    expectAnswered('Redlich–Kister', 0.99);
   }, 120_000);
   it('Flory–Huggins, N from 1 to 1e4, chi = A + B/T (seed 6002)', () => {
     checkAll(fhArb, 6002, 1000, binodalProperty('Flory–Huggins'), 'Flory–Huggins binodal');
+    // long chains put a boundary below 1e-300 (a range error, the documented #NUM!): 6.4 % of the
+    // temperatures today; a floor of 90 % answered leaves room for the draw, not for a new failure mode
+    expectAnswered('Flory–Huggins', 0.9, ['range']);
   }, 120_000);
   it('NRTL, tau_ij = a_ij + b_ij/T, alpha 0.1 to 0.5 (seed 6003)', () => {
     checkAll(nrtlArb, 6003, 1000, binodalProperty('NRTL'), 'NRTL binodal');
+    expectAnswered('NRTL', 0.99);
   }, 120_000);
 });
 
@@ -594,6 +613,8 @@ interface CritStats {
   closedForm: number;
   closeChecked: number;
   tgapTried: number;
+  tgapTurning: number;
+  tgapBetweenSamples: number;
   tgapSame: number;
   tgapHigher: number;
   unverifiable: number;
@@ -603,11 +624,13 @@ const critCounts: Record<string, CritStats> = {};
 afterAll(() => {
   for (const [name, c] of Object.entries(critCounts)) {
     const errors = [...c.errors].map(([r, n]) => `${r} ${n}`).join(', ') || 'none';
-    summary.push(`${name}, critical points and TGAP: ${c.systems} systems, ${c.points} critical points (${c.upper} upper, ${c.lower} lower; ${c.closedForm} against a closed form, ${c.closeChecked} checked to close, ${c.unverifiable} beyond what the jets can evaluate), TGAP of ${c.tgapTried} binodal compositions: ${c.tgapSame} gave back their temperature, ${c.tgapHigher} a higher crossing of the same composition; errors returned: ${errors}`);
+    // a TGAP window missed between samples is a known limit of its sampling, not a common case
+    expect(c.tgapBetweenSamples, `${name}: TGAP windows between samples`).toBeLessThanOrEqual(Math.ceil(0.01 * c.tgapTried));
+    summary.push(`${name}, critical points and TGAP: ${c.systems} systems, ${c.points} critical points (${c.upper} upper, ${c.lower} lower; ${c.closedForm} against a closed form, ${c.closeChecked} checked to close, ${c.unverifiable} beyond what the jets can evaluate), TGAP of ${c.tgapTried} binodal compositions: ${c.tgapSame} gave back their temperature, ${c.tgapHigher} a higher crossing of the same composition (${c.tgapTurning} at a turning point of the boundary, where only the checks below apply; ${c.tgapBetweenSamples} inside a gap only between two of TGAP's sampled temperatures, a lower crossing found); errors returned: ${errors}`);
   }
 });
 
-const countError = (m: Map<string, number>, e: CellFailure) => m.set(e.code, (m.get(e.code) ?? 0) + 1);
+const countError = (m: Map<string, number>, e: CellFailure, fn: string) => m.set(`${fn} ${e.code}`, (m.get(`${fn} ${e.code}`) ?? 0) + 1);
 
 /** Whether x0 lies strictly inside a gap at T (core, fresh solve): undefined if the solve fails. */
 function insideAt(s: RandomSystem, T: number, x0: number): boolean | undefined {
@@ -667,14 +690,14 @@ const xyOf = (v: number) => {
 };
 
 function criticalProperty(name: string, closedForm: (d: Drawn) => Array<{ T: number; x: number }> | undefined) {
-  const c = (critCounts[name] ??= { systems: 0, points: 0, upper: 0, lower: 0, closedForm: 0, closeChecked: 0, tgapTried: 0, tgapSame: 0, tgapHigher: 0, unverifiable: 0, errors: new Map() });
+  const c = (critCounts[name] ??= { systems: 0, points: 0, upper: 0, lower: 0, closedForm: 0, closeChecked: 0, tgapTried: 0, tgapTurning: 0, tgapBetweenSamples: 0, tgapSame: 0, tgapHigher: 0, unverifiable: 0, errors: new Map() });
   return (d: Drawn) => {
     const { system: s, Ts, where } = d;
     c.systems++;
     const problems: string[] = [];
     const p = s.params;
     const count = callCell(() => cells.critCount(p));
-    if (count instanceof CellFailure) { countError(c.errors, count); return; }
+    if (count instanceof CellFailure) { countError(c.errors, count, 'CRITCOUNT'); return; }
     const points: Array<{ T: number; x: number; kind: string }> = [];
     for (let n = 1; n <= count; n++) {
       const T = callCell(() => cells.tCrit(p, n)), x = callCell(() => cells.xCrit(p, n)), kind = callCell(() => cells.critKind(p, n));
@@ -774,37 +797,50 @@ function criticalProperty(name: string, closedForm: (d: Drawn) => Array<{ T: num
     // TGAP of a binodal composition: x0 = GAPLOW or GAPHIGH of a gap at the system's temperature.
     const T = Ts[0];
     const n = callCell(() => cells.gapCount(T, p));
+    if (n instanceof CellFailure) countError(c.errors, n, 'GAPCOUNT');
     const k = typeof n === 'number' ? 1 + Math.min(n - 1, Math.floor(where[1] * n)) : 0;
     const x0 = k > 0 ? callCell(() => (where[2] < 0.5 ? cells.gapLow(T, p, k) : cells.gapHigh(T, p, k))) : undefined;
     if (typeof x0 === 'number' && x0 < 1) {
       c.tgapTried++;
       const Tstar = callCell(() => cells.tGap(x0, p));
       if (Tstar instanceof CellFailure) {
-        countError(c.errors, Tstar);
-        // "does not enter a gap" is wrong for a composition that lies on a binodal at T
+        countError(c.errors, Tstar, 'TGAP');
+        // "does not enter a gap" is wrong for a composition that lies on a binodal at T, and "still
+        // inside a gap at 20000 K" must be true (or the solve there out of range itself)
         if (Tstar.code === '#N/A') problems.push(`TGAP(${x0}) of a boundary of gap ${k} at ${T} K: ${Tstar.message}`);
+        else if (insideAt(s, 20000, x0) === false) problems.push(`TGAP(${x0}) of a boundary of gap ${k} at ${T} K: ${Tstar.code} (${Tstar.message}) but x0 is in no gap at 20000 K`);
       } else {
         const at = `TGAP(${x0}) = ${Tstar} K for a boundary of gap ${k} at ${T} K`;
         // x0 lies on a binodal at T, so the highest such temperature is T or above. How far x0 (the
         // solver's 1e-12 |u| in u plus the rounding of the double) can move that temperature goes
         // through the slope du/dT of the boundary, from the core at T +- 1e-6 T (a scale only).
         const y0 = 1 - x0, u0 = Math.log(x0 / y0);
-        let slope = 0;
+        let slope = 0, turning = false;
         try {
           const near = [T * (1 - 1e-6), T * (1 + 1e-6)].map((t) => phaseMap(s.model.at(t)).gaps[k - 1]);
           const side = (g: Gap) => (where[2] < 0.5 ? g.low.u : g.high.u);
           if (near[0] && near[1]) slope = Math.abs(side(near[1]) - side(near[0])) / (2e-6 * T);
+          // The boundary turns back within 1e-6 T (x0 at the extremum of x(T)): whether x0 enters
+          // the gap there at all is decided by the rounding of x0, so its TGAP may be a lower crossing.
+          if (near[0] && near[1]) turning = (side(near[0]) - u0) * (side(near[1]) - u0) > 0;
         } catch { /* no scale: only the bisection's 1e-12 T below */ }
         // x0 carries that error, and so does each boundary TGAP's own bisection compares x0 with:
         // twice duX, doubled again for the slope's estimate.
         const duX = 1e-12 * Math.max(1, Math.abs(u0)) + (2 * representation(x0)) / (x0 * y0);
         const tolT = 1e-12 * T + (slope > 0 ? (4 * duX) / slope : 0);
-        if (Tstar < T - tolT) problems.push(`${at}: below the temperature at which x0 is on a binodal (allowed ${tolT} K)`);
+        // TGAP samples 200 temperatures evenly in ln T (5 % apart): a stretch of temperature in which
+        // x0 is inside a gap (a boundary that turns back) and that holds none of them can be missed.
+        const samples = Array.from({ length: 200 }, (_, i) => Math.pow(20000, i / 199));
+        const below = samples.filter((t) => t <= T).pop(), above = samples.find((t) => t > T);
+        const between = below !== undefined && above !== undefined && insideAt(s, below, x0) === false && insideAt(s, above, x0) === false;
+        if (turning) c.tgapTurning++;
+        else if (Tstar < T - tolT && between) c.tgapBetweenSamples++;
+        else if (Tstar < T - tolT) problems.push(`${at}: below the temperature at which x0 is on a binodal (allowed ${tolT} K)`);
         // TGAP is where x0 crosses a binodal: inside a gap just below, outside every gap just above
         const eta = 1e-9;
         if (insideAt(s, Tstar * (1 - eta), x0) === false) problems.push(`${at}: x0 is in no gap just below it`);
         if (insideAt(s, Tstar * (1 + eta), x0) === true) problems.push(`${at}: x0 is still inside a gap just above it`);
-        if (Math.abs(Tstar - T) <= tolT) c.tgapSame++; else c.tgapHigher++;
+        if (Math.abs(Tstar - T) <= tolT) c.tgapSame++; else if (Tstar > T) c.tgapHigher++;
         // and it is the highest: x0 inside no gap at any temperature above (24 samples even in ln T up
         // to 20000 K, and just below each upper critical point above TGAP, where a gap is narrowest)
         const probes: number[] = [];
@@ -818,14 +854,32 @@ function criticalProperty(name: string, closedForm: (d: Drawn) => Array<{ T: num
   };
 }
 
+/**
+ * A floor under the errors of the critical-point checks: CRITCOUNT answered for 99 % of the
+ * systems at least (all today), GAPCOUNT at the system's temperature for `gapShare` of them. (A
+ * TGAP error is checked one by one above: #NUM! only for a composition still inside a gap at 20000 K.)
+ */
+function expectCritAnswered(name: string, gapShare: number): void {
+  const c = critCounts[name];
+  const errors = (key: string) => c.errors.get(key) ?? 0;
+  const crit = errors('CRITCOUNT #N/A') + errors('CRITCOUNT #NUM!') + errors('CRITCOUNT #VALUE!');
+  const gap = errors('GAPCOUNT #N/A') + errors('GAPCOUNT #NUM!') + errors('GAPCOUNT #VALUE!');
+  expect(crit / c.systems, `${name}: CRITCOUNT errors in ${crit} of ${c.systems} systems`).toBeLessThanOrEqual(0.01);
+  expect(1 - gap / c.systems, `${name}: GAPCOUNT errors in ${gap} of ${c.systems} systems`).toBeGreaterThanOrEqual(gapShare);
+}
+
 describe('critical points and gap temperatures over random systems', () => {
   it('Redlich–Kister (seed 6011)', () => {
     checkAll(rkArb, 6011, 300, criticalProperty('Redlich–Kister', rkClosed), 'Redlich–Kister critical points and TGAP');
+    expectCritAnswered('Redlich–Kister', 0.99);
   }, 120_000);
   it('Flory–Huggins (seed 6012)', () => {
     checkAll(fhArb, 6012, 300, criticalProperty('Flory–Huggins', fhClosed), 'Flory–Huggins critical points and TGAP');
+    // GAPCOUNT out of range (a boundary below 1e-300) for 19 of 300 systems today
+    expectCritAnswered('Flory–Huggins', 0.9);
   }, 120_000);
   it('NRTL (seed 6013)', () => {
     checkAll(nrtlArb, 6013, 300, criticalProperty('NRTL', () => undefined), 'NRTL critical points and TGAP');
+    expectCritAnswered('NRTL', 0.99);
   }, 120_000);
 });

@@ -1,0 +1,41 @@
+/**
+ * Named limits and tolerances of the solvers, each with its reason in one line. Core code and
+ * core messages read them from here.
+ */
+
+/** Lowest temperature searched for critical points and gap temperatures, K (RT = 8.3 J/mol). */
+export const T_SEARCH_MIN = 1;
+/** Highest temperature searched, K: above every condensed solution the models describe. */
+export const T_SEARCH_MAX = 20000;
+
+/**
+ * Largest |u| = |ln(x / (1 - x))| solved: x or 1 - x down to e^-700 = 9.9e-305, above the
+ * smallest normal double (2.2e-308), so that x y and 1/x keep full precision.
+ */
+export const U_LIMIT = 700;
+/** The dilute limit as messages state it: a composition beyond U_LIMIT is closer than this to a pure component. */
+export const DILUTE_LIMIT = '1e-300';
+
+/** Sampling ranges of the curvature in |u|, tried in turn (the last is U_LIMIT): narrow first, for the grid's resolution. */
+export const CURVATURE_RANGES = [40, 160, U_LIMIT] as const;
+
+/** Newton stops after a step below NEWTON_STEP max(1, |u|): with quadratic convergence the error is then below 1e-20. */
+export const NEWTON_STEP = 1e-12;
+/** A bracket narrower than BRACKET_WIDTH max(1, |u|) (two ulps of a double) cannot shrink further. */
+export const BRACKET_WIDTH = 4e-16;
+/** The common-tangent slope stops after a step below SLOPE_STEP of its scale (RT + |slopes|): F is then at its rounding. */
+export const SLOPE_STEP = 1e-15;
+
+/** Below a fall of g' of NEAR_CRITICAL_DROP RT across an unstable interval (width about 1e-4), the tangent is within the rounding of g': the expansion about the critical point is used. */
+export const NEAR_CRITICAL_DROP = 1e-11;
+
+/**
+ * Width of the cells of u that make a final solve canonical: 2^-20, an exact binary fraction,
+ * far wider than the rounding of a root (about 1e-15), far narrower than what separates roots.
+ */
+export const CELL = 2 ** -20;
+/** A Newton estimate may start a canonical final solve after a step below ESTIMATE max(1, |u|): its error is then of order 1e-8, within a cell or two. */
+export const ESTIMATE = 1e-4;
+
+/** A previous solve seeds a new one when its temperature is within WARM_WINDOW T (farther, a cold start is as fast). */
+export const WARM_WINDOW = 0.1;

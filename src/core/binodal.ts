@@ -2,7 +2,7 @@ import { curvatureMap, spinodalRootNear } from './curvature';
 import { fail, kelvin, MixgapError, msg } from './errors';
 import type { Isotherm, Point } from './model';
 import { logRatio, muA, pointAt, splitRatio } from './model';
-import { BRACKET_WIDTH, DILUTE_LIMIT, ESTIMATE, NEAR_CRITICAL_DROP, NEWTON_STEP, SLOPE_STEP, U_LIMIT } from './limits';
+import { BRACKET_WIDTH, DILUTE_LIMIT, ENERGY_UNIT_HINT, ESTIMATE, NEAR_CRITICAL_DROP, NEWTON_STEP, SLOPE_STEP, U_LIMIT } from './limits';
 import { cellNewton, signCell, type SignCell } from './roots';
 
 /** One miscibility gap at a temperature: the two coexisting compositions and their common tangent. */
@@ -349,7 +349,7 @@ const xy = new Float64Array(2);
 export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
   if (m >= br.slopeHigh) return br.b;
   if (m <= br.slopeLow) return br.a;
-  const tooDilute = () => fail('range', msg`a tangent point (gap boundary) lies closer than ${DILUTE_LIMIT} to a pure component at T = ${kelvin(iso.T)}`);
+  const tooDilute = () => fail('range', msg`a tangent point (gap boundary) lies closer than ${DILUTE_LIMIT} to a pure component at T = ${kelvin(iso.T)}: the interaction is very strong for this temperature; ${ENERGY_UNIT_HINT}`);
   let lo = br.a, hi = br.b;
   let u = Math.min(Math.max(br.guess, lo), hi);
   if (!Number.isFinite(u)) u = 0;

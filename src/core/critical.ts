@@ -1,7 +1,7 @@
 import { phaseMap } from './binodal';
-import { T_SEARCH_MAX, T_SEARCH_MIN } from './limits';
+import { ENERGY_UNIT_HINT, ENERGY_UNIT_HINT_SMALL, T_SEARCH_MAX, T_SEARCH_MIN } from './limits';
 import { curvature, curvatureMap, refineExtremum } from './curvature';
-import { fail, kelvin, msg } from './errors';
+import { fail, kelvin, MixgapError, msg } from './errors';
 import type { BinaryModel, Isotherm, Point } from './model';
 import { pointAt } from './model';
 import { brentMin, brentRoot } from './roots';
@@ -234,6 +234,37 @@ function closesThere(model: BinaryModel, Tc: number, u: number, kind: 'upper' | 
   if (width(-dT) > 0) return false;
   const ratio = narrow / wide;
   return ratio > CLOSE_RATIO_MIN && ratio < CLOSE_RATIO_MAX;
+}
+
+/** Temperatures at which `noCriticalPoint` looks whether the system is split: evenly in ln T. */
+const SPLIT_SAMPLES = 41;
+
+
+/**
+ * Why a system has no critical point in the search range, as a 'none' failure: it is split into
+ * two phases at every temperature searched, homogeneous at every one, or neither (its gaps reach
+ * the ends of the range without closing). A temperature counts as split when g'' < 0 somewhere
+ * (a gap without an unstable interval exists only at a critical point) or when the solution is
+ * unstable even at the dilute limit.
+ */
+export function noCriticalPoint(model: BinaryModel): never {
+  let split = 0;
+  for (let i = 0; i < SPLIT_SAMPLES; i++) {
+    const T = T_SEARCH_MIN * Math.pow(T_SEARCH_MAX / T_SEARCH_MIN, i / (SPLIT_SAMPLES - 1));
+    try {
+      if (curvatureMap(model.at(T), false).spinodal.length > 0) split++;
+    } catch (e) {
+      if (!(e instanceof MixgapError && e.reason === 'range')) throw e;
+      split++;
+    }
+  }
+  if (split === SPLIT_SAMPLES) {
+    return fail('none', msg`this system has no critical point: it is split into two phases at every temperature searched (${kelvin(T_SEARCH_MIN)} to ${kelvin(T_SEARCH_MAX)}); ${ENERGY_UNIT_HINT}`);
+  }
+  if (split === 0) {
+    return fail('none', msg`this system has no critical point: it is one phase at every temperature searched (${kelvin(T_SEARCH_MIN)} to ${kelvin(T_SEARCH_MAX)}), no gap opens; ${ENERGY_UNIT_HINT_SMALL}`);
+  }
+  return fail('none', msg`this system has no critical point between ${kelvin(T_SEARCH_MIN)} and ${kelvin(T_SEARCH_MAX)}: its gaps reach the ends of that range without closing`);
 }
 
 /** The critical point numbered n (1 = highest temperature). */

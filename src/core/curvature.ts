@@ -1,7 +1,7 @@
 import { fail, kelvin, msg } from './errors';
 import type { Isotherm, Point } from './model';
 import { pointAt, splitRatio } from './model';
-import { CURVATURE_RANGES as RANGES, DILUTE_LIMIT } from './limits';
+import { CURVATURE_RANGES as RANGES, DILUTE_LIMIT, ENERGY_UNIT_HINT } from './limits';
 import { brentMin, brentRoot, cellNewton, signCell, type SignCell } from './roots';
 
 /**
@@ -101,7 +101,7 @@ export function curvatureMap(iso: Isotherm, refineAll = true): CurvatureMap {
     }
     return analyse(iso, points, q, refineAll);
   }
-  return fail('range', msg`the solution is unstable even at x = ${DILUTE_LIMIT} at T = ${kelvin(iso.T)}: the parameters are too large for this temperature`);
+  return fail('range', msg`the solution is unstable even at x = ${DILUTE_LIMIT} at T = ${kelvin(iso.T)}: the parameters are too large for this temperature; ${ENERGY_UNIT_HINT}`);
 }
 
 function analyse(iso: Isotherm, points: Point[], q: Float64Array, refineAll: boolean): CurvatureMap {

@@ -1,5 +1,5 @@
 import { phaseMap, type Gap, type PhaseMap } from './binodal';
-import { criticalPoints, type CriticalPoint } from './critical';
+import { criticalPoint, criticalPoints, noCriticalPoint, type CriticalPoint } from './critical';
 import { fail, kelvin, msg } from './errors';
 import { WARM_WINDOW } from './limits';
 import type { BinaryModel } from './model';
@@ -109,6 +109,13 @@ export function equilibriumAt(model: BinaryModel, T: number): PhaseMap {
 export function criticalPointsOf(model: BinaryModel): CriticalPoint[] {
   const state = modelState(model);
   return (state.critical ??= criticalPoints(model));
+}
+
+/** The critical point numbered n (1 = highest temperature); with none, why there is none. */
+export function criticalPointOf(model: BinaryModel, n = 1): CriticalPoint {
+  const points = criticalPointsOf(model);
+  if (points.length === 0) noCriticalPoint(model);
+  return criticalPoint(points, n);
 }
 
 /** The gap numbered n (from low x, 1-based) at T. */

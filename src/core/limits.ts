@@ -15,6 +15,10 @@ export const T_SEARCH_MAX = 20000;
 export const U_LIMIT = 700;
 /** The dilute limit as messages state it: a composition beyond U_LIMIT is closer than this to a pure component. */
 export const DILUTE_LIMIT = '1e-300';
+/** What messages suggest when energies look far too large: the usual slip is J/mol entered as kJ/mol. */
+export const ENERGY_UNIT_HINT = 'if that is not expected, check the unit of the energies (J/mol entered as kJ/mol makes them 1000 times too large)';
+/** And when a gap never opens: kJ/mol entered as J/mol. */
+export const ENERGY_UNIT_HINT_SMALL = 'if a gap is expected, check the unit of the energies (kJ/mol entered as J/mol makes them 1000 times too small)';
 
 /** Sampling ranges of the curvature in |u|, tried in turn (the last is U_LIMIT): narrow first, for the grid's resolution. */
 export const CURVATURE_RANGES = [40, 160, U_LIMIT] as const;

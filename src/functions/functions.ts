@@ -9,8 +9,7 @@
  * are in kelvin and energies in J/mol unless a parameter card says otherwise.
  */
 import { T_SEARCH_MAX, T_SEARCH_MIN } from '../core/constants';
-import { criticalPoint } from '../core/critical';
-import { criticalPointsOf, equilibriumAt, gapAt, unstableAt } from '../core/equilibrium';
+import { criticalPointOf, criticalPointsOf, equilibriumAt, gapAt, unstableAt } from '../core/equilibrium';
 import { evenTemperatures, gapTable as coreGapTable } from '../core/gapTable';
 import { gapTemperature } from '../core/gapTemperature';
 import { phaseFractions } from '../core/leverRule';
@@ -111,7 +110,7 @@ export function spinHigh(T: number, params: any[][], interval?: number): number 
 export function tCrit(params: any[][], n?: number): number {
   return cell(() => {
     const sys = system(params);
-    return temperatureOut(sys, criticalPoint(criticalPointsOf(sys.model), ordinal(n, 'n')).T);
+    return temperatureOut(sys, criticalPointOf(sys.model, ordinal(n, 'n')).T);
   });
 }
 
@@ -126,7 +125,7 @@ export function tCrit(params: any[][], n?: number): number {
 export function xCrit(params: any[][], n?: number): number {
   return cell(() => {
     const { model } = system(params);
-    return criticalPoint(criticalPointsOf(model), ordinal(n, 'n')).x;
+    return criticalPointOf(model, ordinal(n, 'n')).x;
   });
 }
 
@@ -142,7 +141,7 @@ export function xCrit(params: any[][], n?: number): number {
 export function critKind(params: any[][], n?: number): string {
   return cell(() => {
     const { model } = system(params);
-    return criticalPoint(criticalPointsOf(model), ordinal(n, 'n')).kind;
+    return criticalPointOf(model, ordinal(n, 'n')).kind;
   });
 }
 

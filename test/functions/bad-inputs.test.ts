@@ -101,8 +101,8 @@ const table = (f: typeof fns, fit: typeof fitFns): Row[] => [
   // CHEMPOT, which keeps the logarithm (issue "polymer activities per molecule")
   { formula: 'ACTIVITY(0.1, 300, FH card with NB = 10000, chi.A = 0.55)', call: () => f.activity(0.1, 300, card(['model', 'fh'], ['NA', 1], ['NB', 10000], ['chi.A', 0.55])), code: '#NUM!', message: /exp\(-4546\.4\), below 2\.2e-308.*CHEMPOT/, when: 'an activity or activity coefficient below 2.2e-308 (long chains): CHEMPOT gives RT ln a' },
   { formula: 'GMIX(0.5, 800, {1E308,1E308})', call: () => f.gMix(0.5, 800, [[1e308, 1e308]]), code: '#NUM!', message: /too large|overflow/, when: 'a result beyond the range of numbers (parameters far too large)' },
-  { formula: 'TCRIT(1E12)', call: () => f.tCrit(1e12 as any), code: '#N/A', message: /no critical point between 1 K and 20000 K/, when: 'no critical point in 1 K to 20000 K (Tc = Omega/2R = 6e10 K here)' },
-  { formula: 'TCRIT(1E-300)', call: () => f.tCrit(1e-300 as any), code: '#N/A', message: /no critical point between 1 K and 20000 K/, when: 'no critical point in 1 K to 20000 K' },
+  { formula: 'TCRIT(1E12)', call: () => f.tCrit(1e12 as any), code: '#N/A', message: /no critical point: it is split into two phases at every temperature searched \(1 K to 20000 K\); .*unit of the energies/, when: 'no critical point in 1 K to 20000 K, split at every temperature (Tc = Omega/2R = 6e10 K here)' },
+  { formula: 'TCRIT(1E-300)', call: () => f.tCrit(1e-300 as any), code: '#N/A', message: /no critical point: it is one phase at every temperature searched \(1 K to 20000 K\)/, when: 'no critical point in 1 K to 20000 K, one phase at every temperature' },
   { formula: 'GAPLOW(800, 1E-300)', call: () => f.gapLow(800, 1e-300 as any), code: '#N/A', message: /no miscibility gap at T = 800 K/, when: 'no gap at that temperature' },
   // --- ranges of the wrong shape ---
   { formula: 'GAPLOW(800, {20000,0,0,5})', call: () => f.gapLow(800, [[20000, 0, 0, 5]]), code: '#VALUE!', message: /params has 4 columns: a Redlich–Kister row has at most 3/, when: 'a params range with more than 3 columns', engine: true },
@@ -117,7 +117,7 @@ const table = (f: typeof fns, fit: typeof fitFns): Row[] => [
   { formula: 'SPINHIGH(2000, 21000)', call: () => f.spinHigh(2000, OMEGA as any), code: '#N/A', message: /no unstable interval at T = 2000 K/, when: 'no unstable interval at that temperature' },
   { formula: 'TCRIT(21000, 2)', call: () => f.tCrit(OMEGA as any, 2), code: '#NUM!', message: /critical point 2 does not exist: this system has 1/, when: 'a critical-point number that does not exist', engine: true },
   { formula: 'XCRIT(21000, 0.5)', call: () => f.xCrit(OMEGA as any, 0.5), code: '#NUM!', message: /n = 0\.5: give a whole number/, when: 'a gap, interval or critical-point number that is not a whole number >= 1' },
-  { formula: 'CRITKIND(-8000)', call: () => f.critKind(-8000 as any), code: '#N/A', message: /no critical point between 1 K and 20000 K/, when: 'no critical point in 1 K to 20000 K' },
+  { formula: 'CRITKIND(-8000)', call: () => f.critKind(-8000 as any), code: '#N/A', message: /no critical point: it is one phase at every temperature searched/, when: 'no critical point in 1 K to 20000 K, one phase at every temperature' },
   { formula: 'GAPLOW(2000, 21000)', call: () => f.gapLow(2000, OMEGA as any), code: '#N/A', message: /no miscibility gap at T = 2000 K/, when: 'no gap at that temperature', engine: true },
   { formula: 'TGAP(0.5, -8000)', call: () => f.tGap(0.5, -8000 as any), code: '#N/A', message: /does not enter a miscibility gap between 1 K and 20000 K/, when: 'a composition that is in no gap between 1 K and 20000 K' },
   { formula: 'TGAP(0.3, 1E6)', call: () => f.tGap(0.3, 1e6 as any), code: '#NUM!', message: /still inside a gap at 20000 K/, when: 'a composition still inside a gap at 20000 K' },

@@ -1,5 +1,6 @@
 import { phaseMap, type Gap, type PhaseMap } from './binodal';
 import { criticalPoint, criticalPoints, noCriticalPoint, type CriticalPoint } from './critical';
+import { BoundedCache } from './boundedCache';
 import { fail, kelvin, msg } from './errors';
 import { WARM_WINDOW } from './limits';
 import type { BinaryModel } from './model';
@@ -18,31 +19,18 @@ import { pointAt } from './model';
 const SLOTS = 4096;
 const SLOT_SIZE = 32; // [T, model id + 1, number of gaps, (u', u'', slope) per gap, u of each spinodal point, NaN]
 const table = new Float64Array(SLOTS * SLOT_SIZE);
-const MAX_MODELS = 256;
 
 interface ModelState {
   id: number;
   critical?: CriticalPoint[];
   last?: PhaseMap;
 }
-const models = new Map<string, ModelState>();
+/** Each model's state by its parameter text, 256 at most (least recently used first out). */
+const models = new BoundedCache<ModelState>(256);
 let nextId = 0;
 
-let recent: { key: string; state: ModelState } | undefined;
-
 function modelState(model: BinaryModel): ModelState {
-  // The same system as the call before (a filled column): no reordering needed.
-  if (recent && recent.key === model.key && models.get(model.key) === recent.state) return recent.state;
-  let state = models.get(model.key);
-  if (state) {
-    models.delete(model.key);
-  } else {
-    state = { id: nextId++ % 2 ** 30 };
-    if (models.size >= MAX_MODELS) models.delete(models.keys().next().value as string);
-  }
-  models.set(model.key, state);
-  recent = { key: model.key, state };
-  return state;
+  return models.get(model.key, () => ({ id: nextId++ % 2 ** 30 }));
 }
 
 const bitsOf = new Float64Array(1);
@@ -143,5 +131,4 @@ export function unstableAt(model: BinaryModel, T: number, n = 1): [number, numbe
 export function forgetSolves(): void {
   table.fill(0);
   models.clear();
-  recent = undefined;
 }

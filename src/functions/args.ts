@@ -2,6 +2,7 @@
  * Reading cell arguments: every check on what a user typed lives here, with a message that says
  * what to fix. Nothing numerical happens in this file.
  */
+import { BoundedCache } from '../core/boundedCache';
 import { formatNumber, MixgapError, type UnitWriter } from '../core/errors';
 import { describeRedlichKister, describeRegular, redlichKister, type RedlichKisterTerm } from '../core/models/redlichKister';
 import { JOULE_PER_MOLE, KELVIN } from '../core/units';
@@ -107,25 +108,14 @@ export type { System } from './card';
  * the last term are ignored). Bare numbers and ranges use J/mol and kelvin.
  */
 export function system(params: unknown): System {
-  const key = fingerprint(params);
-  if (key === lastSystem?.key) return (scope = lastSystem.system);
-  let known = systems.get(key);
-  if (!known) {
-    known = readSystem(params);
-    if (systems.size >= MAX_SYSTEMS) systems.delete(systems.keys().next().value as string);
-    systems.set(key, known);
-  }
-  lastSystem = { key, system: known };
-  return (scope = known);
+  return (scope = systems.get(fingerprint(params), () => readSystem(params)));
 }
 
 /**
  * Systems already read, by the text of their parameter cells: a column of formulas that all point
- * at one card reads it once. Bounded (256, oldest first out); a failed reading is not kept.
+ * at one card reads it once. Bounded (256, least recently used first out); a failed reading is not kept.
  */
-const MAX_SYSTEMS = 256;
-const systems = new Map<string, System>();
-let lastSystem: { key: string; system: System } | undefined;
+const systems = new BoundedCache<System>(256);
 
 /** The cells of a parameter argument as one text (type-tagged, so 1 and "1" differ). */
 function fingerprint(params: unknown): string {

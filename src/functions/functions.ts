@@ -16,6 +16,7 @@ import { phaseFractions } from '../core/leverRule';
 import { activities, decompositionGain, drivingForce, excessGibbs, expOfLog } from '../core/activity';
 import { asFailure, cell, cellOf, component, energyOut, fraction, number, ordinal, phaseSide, system, temperatureIn, temperatureOut, unitsOf } from './args';
 import { CellFailure } from './errors';
+import { GAPTABLE_ROWS } from './shapes';
 
 /**
  * Low (A-rich) boundary of a miscibility gap: the mole fraction of B of the A-rich phase that
@@ -236,8 +237,8 @@ export function gapTable(T1: number, T2: number, rows: number, params: any[][], 
     const sys = system(params);
     const from = temperatureIn(sys, T1, 'T1'), to = temperatureIn(sys, T2, 'T2');
     const n = number(rows, 'rows');
-    if (!(Number.isInteger(n) && n >= 2 && n <= 10000)) {
-      throw new CellFailure('#NUM!', `rows = ${n}: give a whole number of rows from 2 to 10000`);
+    if (!(Number.isInteger(n) && n >= GAPTABLE_ROWS.min && n <= GAPTABLE_ROWS.max)) {
+      throw new CellFailure('#NUM!', `rows = ${n}: give a whole number of rows from ${GAPTABLE_ROWS.min} to ${GAPTABLE_ROWS.max}`);
     }
     const which = ordinal(gap, 'gap');
     const { model } = sys;

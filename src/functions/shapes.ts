@@ -13,6 +13,9 @@ export type LiteralArg = number | string | boolean | undefined;
 
 export type Shape = { rows: number; cols: number } | { error: string };
 
+/** Rows a GAPTABLE may ask for: two (its end temperatures) to a size a chart still reads. */
+export const GAPTABLE_ROWS = { min: 2, max: 10000 } as const;
+
 /** Most Redlich–Kister terms a fit may ask for. */
 export const MAX_FIT_TERMS = 6;
 
@@ -36,7 +39,7 @@ function counted(
 }
 
 const rules: Record<string, (args: LiteralArg[]) => Shape> = {
-  GAPTABLE: (args) => counted(args, 'GAPTABLE', 2, 'rows', 2, 10000, '=MIXGAP.GAPTABLE(300, 1200, 51, B2:D3)', 5),
+  GAPTABLE: (args) => counted(args, 'GAPTABLE', 2, 'rows', GAPTABLE_ROWS.min, GAPTABLE_ROWS.max, '=MIXGAP.GAPTABLE(300, 1200, 51, B2:D3)', 5),
   FITTIELINES: (args) => counted(args, 'FITTIELINES', 1, 'terms', 1, MAX_FIT_TERMS, '=MIXGAP.FITTIELINES(A2:C9, 2, TRUE)', 3),
   FITCRIT: () => ({ rows: 2, cols: 3 }),
   FITNRTL: () => ({ rows: 6, cols: 2 }),

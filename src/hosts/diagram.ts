@@ -11,6 +11,7 @@ import { Resvg } from '@resvg/resvg-js';
 import type { HyperFormula } from 'hyperformula';
 import { system, type System } from '../functions/args';
 import { isCard } from '../functions/card';
+import { GAPTABLE_ROWS } from '../functions/shapes';
 import type { CustomFunctionsMetadata } from './engine';
 import { evaluateFormulas } from './evaluate';
 import type { FormulaResult, ResultCell } from './evaluate';
@@ -151,7 +152,7 @@ export function diagramData(metadata: CustomFunctionsMetadata, grid: CardGrid, o
     const unit = labels.temperatureUnit;
     const { tmin, tmax } = temperatureRange(critical, unit, options);
     const rows = options.rows ?? 201;
-    if (!(Number.isInteger(rows) && rows >= 2 && rows <= 10000)) throw new Error(`rows = ${rows}: give a whole number from 2 to 10000`);
+    if (!(Number.isInteger(rows) && rows >= GAPTABLE_ROWS.min && rows <= GAPTABLE_ROWS.max)) throw new Error(`rows = ${rows}: give a whole number from ${GAPTABLE_ROWS.min} to ${GAPTABLE_ROWS.max}`);
 
     // Near a critical point the binodal runs flat (its width grows as the square root of the distance
     // in temperature), so a second, finer table on that side closes the dome smoothly.

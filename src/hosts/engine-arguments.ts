@@ -16,8 +16,10 @@ export interface AstNode {
   args?: AstNode[];
 }
 
+import type { LiteralArg } from '../functions/shapes';
+
 /** The value of an argument written as a literal in the formula text; undefined when computed. */
-export type LiteralArg = number | string | boolean | undefined;
+export type { LiteralArg };
 
 /** The value of a literal argument (`3`, `-2.5`, `"text"`, `TRUE`, `TRUE()`, `(4)`, `50%`); undefined otherwise. */
 export function literalValue(ast: AstNode): LiteralArg {

@@ -8,9 +8,10 @@ import { literalValue } from './engine-arguments';
 import type { AstNode, LiteralArg } from './engine-arguments';
 import { internalError, isCellFailure, toCellError, toCellValue } from './engine-errors';
 import type { EngineCellValue } from './engine-errors';
+import type { Shape } from '../functions/shapes';
 
 /** Size of a spilled result, or why it cannot be known from the formula text. */
-export type SpillShapeResult = { rows: number; cols: number } | { error: string };
+export type SpillShapeResult = Shape;
 
 /** Signature of `spillShape` in src/functions/shapes.ts. */
 export type SpillShape = (id: string, literalArgs: LiteralArg[]) => SpillShapeResult;

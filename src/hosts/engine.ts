@@ -12,6 +12,7 @@ import { CellError, ErrorType, FunctionPlugin, HyperFormula, ArraySize } from 'h
 import type { ConfigParams, FunctionArgument, FunctionMetadata, ImplementedFunctions, SerializedNamedExpression, Sheets } from 'hyperformula';
 import { argumentType, callArguments } from './engine-arguments';
 import type { AstNode } from './engine-arguments';
+import { NAMESPACE } from '../functions/namespace';
 import { callSafely, toScalar } from './engine-errors';
 import { indexDependencyGraph } from './engine-graph-index';
 import { shapeOfCall, toRange } from './engine-spill';
@@ -22,8 +23,7 @@ export type { LiteralArg } from './engine-arguments';
 export { toCellError } from './engine-errors';
 export type { SpillShape, SpillShapeResult } from './engine-spill';
 
-/** Prefix of every Mixgap function name in a formula, as in Excel (`=MIXGAP.GAPLOW(...)`). */
-export const NAMESPACE = 'MIXGAP';
+export { NAMESPACE } from '../functions/namespace';
 
 /** One parameter as functions.json describes it. */
 export interface ParameterMetadata {

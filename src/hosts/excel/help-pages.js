@@ -8,14 +8,12 @@
 const fs = require('fs');
 const path = require('path');
 
-const NAMESPACE = 'MIXGAP';
-
 /**
- * The model families of src/core/models/index.ts, loaded from their TypeScript sources at build
- * time (each file transpiled on its own by the TypeScript compiler the build already uses; the
- * registry's files import only each other and plain core modules).
+ * A module of src/ loaded from its TypeScript source at build time (each file transpiled on its
+ * own by the TypeScript compiler the build already uses; such modules import only each other and
+ * plain modules of src/, nothing bundled).
  */
-function loadFamilies() {
+function loadSource(relative) {
   const ts = require('typescript');
   const cache = new Map();
   const load = (file) => {
@@ -34,8 +32,13 @@ function loadFamilies() {
     new Function('exports', 'require', 'module', outputText)(module.exports, localRequire, module);
     return module.exports;
   };
-  return load(path.join(__dirname, '..', '..', 'core', 'models', 'index.ts')).FAMILIES;
+  return load(path.join(__dirname, '..', '..', relative));
 }
+
+/** The model families of src/core/models/index.ts. */
+const loadFamilies = () => loadSource('core/models/index.ts').FAMILIES;
+
+const { NAMESPACE } = loadSource('functions/namespace.ts');
 
 /** Plain text of the registry with `_k`, `_ij` as subscripts. */
 const withSubscripts = (text) => escapeHtml(text).replace(/_([A-Za-z0-9]+)/g, '<sub>$1</sub>');

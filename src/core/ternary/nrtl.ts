@@ -132,7 +132,7 @@ export const ternaryNrtlFamily: TernaryFamily = {
   note: 'each pair AB, AC, BC has the binary keys a12, b12, a21, b21, alpha behind its prefix',
   composition: 'mole fraction',
   keyRows: [
-    { keys: ['AB.a12', 'AB.b12', 'AB.a21', 'AB.b21'], meaning: 'tau_ij = a_ij + b_ij / T (b in K) of the pair A–B: 1 = A, 2 = B (likewise AC.*: 1 = A, 2 = C; BC.*: 1 = B, 2 = C)' },
+    { keys: ['AB.a12', 'AB.b12', 'AB.a21', 'AB.b21'], meaning: 'tau_ij = a_ij + b_ij / T (b in K) of the pair A–B: 1 = A, 2 = B (likewise the pair A–C: 1 = A, 2 = C; B–C: 1 = B, 2 = C)' },
     { keys: ['AB.alpha', 'AC.alpha', 'BC.alpha'], meaning: 'non-randomness of each pair, G_ij = exp(-alpha tau_ij)' },
   ],
   fromCard(card: CardValues) {

@@ -8,6 +8,7 @@
  * with the second left empty.
  */
 import { expOfLog } from '../core/activity';
+import { molarMass as formulaMass } from '../core/composition';
 import { fail } from '../core/errors';
 import { LOCAL_SIZE, perMolecule } from '../core/ternary/model';
 import { plaitPoints } from '../core/ternary/plait';
@@ -15,7 +16,7 @@ import { splitFeed, type TernaryPoint } from '../core/ternary/split';
 import { threePhaseTriangles } from '../core/ternary/threePhase';
 import { selectivity, tieLineAt } from '../core/ternary/tieLine';
 import { cell, energyOut, number, ordinal, temperatureIn, type System } from './args';
-import { gridNumber, isEmpty, toGrid } from './cells';
+import { gridNumber, isEmpty, numberText, toGrid } from './cells';
 import { CellFailure } from './errors';
 import { ternarySystem, type TernarySystem } from './ternaryCard';
 
@@ -72,7 +73,7 @@ export function tSplit(xB: any[][], xC: any[][], T: number, params: any[][]): an
  * @param xC Mole fraction of C (empty when xB is a range).
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Ternary parameter card (key/value range).
- * @param [masses] Molar masses of A, B, C (g/mol, a range of three numbers) for the mass basis; omitted: mole basis.
+ * @param [masses] Molar masses of A, B, C for the mass basis (a range of three: numbers in g/mol or formulas such as "H2O"); omitted: mole basis.
  * @returns K_i (dimensionless).
  */
 export function tDist(component: string, xB: any[][], xC: any[][], T: number, params: any[][], masses?: any[][]): number {
@@ -94,7 +95,7 @@ export function tDist(component: string, xB: any[][], xC: any[][], T: number, pa
  * @param xC Mole fraction of C (empty when xB is a range).
  * @param T Temperature (kelvin, or the card's temperature unit).
  * @param params Ternary parameter card (key/value range).
- * @param [masses] Molar masses of A, B, C (g/mol, a range of three numbers) for the mass basis; omitted: mole basis.
+ * @param [masses] Molar masses of A, B, C for the mass basis (a range of three: numbers in g/mol or formulas such as "H2O"); omitted: mole basis.
  * @returns S_ij (dimensionless).
  */
 export function tSelect(i: string, j: string, xB: any[][], xC: any[][], T: number, params: any[][], masses?: any[][]): number {
@@ -288,9 +289,11 @@ function molarMasses(value: unknown): [number, number, number] | undefined {
   const cells = toGrid(value).flat().filter((v) => !isEmpty(v));
   if (cells.length === 0) return undefined;
   if (cells.length !== 3) throw new CellFailure('#VALUE!', `masses holds ${cells.length} values: give the molar masses of A, B and C (three numbers, g/mol), or leave it empty for the mole basis`);
-  const M = cells.map((c, k) => gridNumber(c, `masses, cell ${k + 1}`, 'give a molar mass in g/mol'));
-  M.forEach((m, k) => {
+  const M = cells.map((c, k) => {
+    if (typeof c === 'string' && numberText(c) === undefined) return formulaMass(c.trim());
+    const m = gridNumber(typeof c === 'string' ? numberText(c) : c, `masses, cell ${k + 1}`, 'give a molar mass in g/mol or a formula such as "H2O"');
     if (!(m > 0)) throw new CellFailure('#NUM!', `the molar mass of ${'ABC'[k]} = ${m}: give a positive number of g/mol`);
+    return m;
   });
   return M as [number, number, number];
 }

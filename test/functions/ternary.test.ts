@@ -14,8 +14,11 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { generateCustomFunctionsMetadata } from 'custom-functions-metadata';
 import type { HyperFormula } from 'hyperformula';
 import { R } from '../../src/core/constants';
+import { crossCurrent } from '../../src/core/ternary/extraction';
+import { readTernaryCard } from '../../src/functions/ternaryCard';
 import { CellFailure } from '../../src/functions/errors';
 import * as bin from '../../src/functions/functions';
+import { molarMass } from '../../src/functions/fitting';
 import * as t from '../../src/functions/ternary';
 import type { CustomFunctionsMetadata } from '../../src/hosts/engine';
 import { evaluateFormulas, type FormulaResult } from '../../src/hosts/evaluate';
@@ -130,6 +133,37 @@ describe('splits: equal chemical potentials, fractions summing to 1, closed mass
     });
     // definition of the mass fraction w_i = x_i M_i / sum_j x_j M_j; the same arithmetic in another order: 1e-14
     expect(t.tDist('solute', 0.4 as any, 0.1 as any, T, RK as any, [M] as any)).toBeCloseTo(w[1][2] / w[0][2], 13);
+    // formulas give their molar masses (IUPAC 2021 standard atomic weights, as MOLARMASS)
+    const byFormula = t.tDist('C', 0.4 as any, 0.1 as any, T, RK as any, [['H2O', 'C8H18', 'C2H4O2']] as any);
+    const byNumber = t.tDist('C', 0.4 as any, 0.1 as any, T, RK as any, [['H2O', 'C8H18', 'C2H4O2'].map((f) => molarMass(f))] as any);
+    expect(byFormula).toBe(byNumber);
+  });
+});
+
+describe('cross-current stages by chaining TSPLIT in cells', () => {
+  it('three stages of fresh solvent: the chained cells give the core cross-current cascade, balances closed', () => {
+    // feed: 100 mol of water with 10 % solute; each stage adds 40 mol of pure solvent (B)
+    const feed = { amount: 100, x: { xA: 0.9, xB: 0, xC: 0.1 } }, solvent = { xA: 0, xB: 1, xC: 0 };
+    const core = crossCurrent(readTernaryCard(RK).model, T, feed, solvent, [40, 40, 40]);
+    let raff = feed.amount, x = [feed.x.xA, feed.x.xB, feed.x.xC];
+    let soluteOut = 0;
+    for (let k = 0; k < 3; k++) {
+      // what a user writes in cells: the mixture, its split, the raffinate (the phase poorer in solvent B)
+      const M = raff + 40, z = [raff * x[0] / M, (raff * x[1] + 40) / M, raff * x[2] / M];
+      const rows = split(RK, z[1], z[2]);
+      const r = rows[0][1] < rows[1][1] ? 0 : 1;
+      const e = 1 - r;
+      // lever rule in cells: the solute balance of the stage closes (mass balance, 1e-11 as above)
+      expect(Math.abs(M * (rows[r][3] * rows[r][2] + rows[e][3] * rows[e][2]) - M * z[2])).toBeLessThan(1e-11 * M);
+      soluteOut += M * rows[e][3] * rows[e][2];
+      // the core cascade (src/core/ternary/extraction.ts) computes the same stage: Newton's last bits, 1e-12
+      expect(rows[r][2]).toBeCloseTo(core[k].raffinate.x.xC, 12);
+      expect(M * rows[r][3]).toBeCloseTo(core[k].raffinate.amount, 9);
+      raff = M * rows[r][3];
+      x = rows[r].slice(0, 3);
+    }
+    // overall solute balance: feed solute = raffinate solute + extract solute, to rounding of the sums
+    expect(Math.abs(feed.amount * feed.x.xC - (raff * x[2] + soluteOut))).toBeLessThan(1e-10);
   });
 });
 

@@ -9,13 +9,13 @@
  */
 import { expOfLog } from '../core/activity';
 import { molarMass as formulaMass } from '../core/composition';
-import { fail } from '../core/errors';
+import { fail, MixgapError } from '../core/errors';
 import { LOCAL_SIZE, perMolecule } from '../core/ternary/model';
 import { plaitPoints } from '../core/ternary/plait';
 import { splitFeed, type TernaryPoint } from '../core/ternary/split';
 import { threePhaseTriangles } from '../core/ternary/threePhase';
 import { selectivity, tieLineAt } from '../core/ternary/tieLine';
-import { cell, energyOut, number, ordinal, temperatureIn, type System } from './args';
+import { asFailure, cell, energyOut, number, ordinal, temperatureIn, type System } from './args';
 import { gridNumber, isEmpty, numberText, toGrid } from './cells';
 import { CellFailure } from './errors';
 import { ternarySystem, type TernarySystem } from './ternaryCard';
@@ -35,8 +35,8 @@ export const TSPLIT_ROWS = 3, TSPLIT_COLS = 4;
  * @returns 1, 2 or 3.
  */
 export function tPhases(xB: any[][], xC: any[][], T: number, params: any[][]): number {
-  return cell(() => {
-    const { sys, z, TK } = feedArgs(xB, xC, T, params);
+  return tcell(params, (sys) => {
+    const { z, TK } = feedArgs(sys, xB, xC, T);
     return splitFeed(sys.model, TK, z.xA, z.xB, z.xC).phases.length;
   });
 }
@@ -54,8 +54,8 @@ export function tPhases(xB: any[][], xC: any[][], T: number, params: any[][]): n
  * @returns 3 x 4 table: x_A, x_B, x_C, fraction per phase; empty rows after the last phase.
  */
 export function tSplit(xB: any[][], xC: any[][], T: number, params: any[][]): any[][] {
-  return cell(() => {
-    const { sys, z, TK } = feedArgs(xB, xC, T, params);
+  return tcell(params, (sys) => {
+    const { z, TK } = feedArgs(sys, xB, xC, T);
     const r = splitFeed(sys.model, TK, z.xA, z.xB, z.xC);
     const rows: any[][] = r.phases.map((p, i) => [p.xA, p.xB, p.xC, r.fractions[i]]);
     while (rows.length < TSPLIT_ROWS) rows.push(['', '', '', '']);
@@ -77,8 +77,8 @@ export function tSplit(xB: any[][], xC: any[][], T: number, params: any[][]): an
  * @returns K_i (dimensionless).
  */
 export function tDist(component: string, xB: any[][], xC: any[][], T: number, params: any[][], masses?: any[][]): number {
-  return cell(() => {
-    const { sys, z, TK } = feedArgs(xB, xC, T, params);
+  return tcell(params, (sys) => {
+    const { z, TK } = feedArgs(sys, xB, xC, T);
     const i = ternaryComponent(component, sys, 'component');
     return tieLineAt(sys.model, TK, z.xA, z.xB, z.xC, molarMasses(masses)).K[i];
   });
@@ -99,8 +99,8 @@ export function tDist(component: string, xB: any[][], xC: any[][], T: number, pa
  * @returns S_ij (dimensionless).
  */
 export function tSelect(i: string, j: string, xB: any[][], xC: any[][], T: number, params: any[][], masses?: any[][]): number {
-  return cell(() => {
-    const { sys, z, TK } = feedArgs(xB, xC, T, params);
+  return tcell(params, (sys) => {
+    const { z, TK } = feedArgs(sys, xB, xC, T);
     const a = ternaryComponent(i, sys, 'i'), b = ternaryComponent(j, sys, 'j');
     return selectivity(tieLineAt(sys.model, TK, z.xA, z.xB, z.xC, molarMasses(masses)).K, a, b);
   });
@@ -117,8 +117,7 @@ export function tSelect(i: string, j: string, xB: any[][], xC: any[][], T: numbe
  * @returns 1 x 3 row: x_A, x_B, x_C.
  */
 export function tPlait(T: number, params: any[][], n?: number): any[][] {
-  return cell(() => {
-    const sys = ternarySystem(params);
+  return tcell(params, (sys) => {
     const TK = tempIn(sys, T);
     const k = ordinal(n, 'n');
     const points = plaitPoints(sys.model, TK);
@@ -138,8 +137,7 @@ export function tPlait(T: number, params: any[][], n?: number): any[][] {
  * @returns 3 x 3 table: x_A, x_B, x_C of each phase.
  */
 export function tTriangle(T: number, params: any[][], n?: number): any[][] {
-  return cell(() => {
-    const sys = ternarySystem(params);
+  return tcell(params, (sys) => {
     const TK = tempIn(sys, T);
     const k = ordinal(n, 'n');
     const found = threePhaseTriangles(sys.model, TK);
@@ -162,8 +160,8 @@ export function tTriangle(T: number, params: any[][], n?: number): any[][] {
  * @returns Activity (dimensionless), per molecule of the component.
  */
 export function tActivity(component: string, xB: any[][], xC: any[][], T: number, params: any[][]): number {
-  return cell(() => {
-    const { sys, z, TK } = feedArgs(xB, xC, T, params, 'composition');
+  return tcell(params, (sys) => {
+    const { z, TK } = feedArgs(sys, xB, xC, T, 'composition');
     const i = ternaryComponent(component, sys, 'component');
     const iso = sys.model.at(TK);
     perMolecule(sys.model, iso, z.xA, z.xB, z.xC, mu);
@@ -184,8 +182,8 @@ export function tActivity(component: string, xB: any[][], xC: any[][], T: number
  * @returns Chemical potential (J per mole of molecules, or the card's energy unit).
  */
 export function tChemPot(component: string, xB: any[][], xC: any[][], T: number, params: any[][]): number {
-  return cell(() => {
-    const { sys, z, TK } = feedArgs(xB, xC, T, params, 'composition');
+  return tcell(params, (sys) => {
+    const { z, TK } = feedArgs(sys, xB, xC, T, 'composition');
     const i = ternaryComponent(component, sys, 'component');
     perMolecule(sys.model, sys.model.at(TK), z.xA, z.xB, z.xC, mu);
     return energyOut(asUnits(sys), mu[i]);
@@ -205,8 +203,7 @@ export function tChemPot(component: string, xB: any[][], xC: any[][], T: number,
  * @returns Gibbs energy of mixing (J/mol, or the card's energy unit; Flory–Huggins: per mole of sites).
  */
 export function tGMix(xB: any[][], xC: any[][], T: number, params: any[][]): number {
-  return cell(() => {
-    const sys = ternarySystem(params);
+  return tcell(params, (sys) => {
     const z = composition(xB, xC, 'composition', true);
     return energyOut(asUnits(sys), sys.model.at(tempIn(sys, T)).g(z.xA, z.xB, z.xC));
   });
@@ -216,6 +213,21 @@ export function tGMix(xB: any[][], xC: any[][], T: number, params: any[][]): num
 // Arguments
 
 const mu = new Float64Array(LOCAL_SIZE);
+
+/**
+ * `cell` for a ternary function: reads the card, runs the body, and writes the temperatures and
+ * energies of core failures in the card's units.
+ */
+function tcell<R>(params: unknown, body: (sys: TernarySystem) => R): R {
+  return cell(() => {
+    const sys = ternarySystem(params);
+    try {
+      return body(sys);
+    } catch (e) {
+      throw e instanceof MixgapError ? asFailure(e, asUnits(sys)) : e;
+    }
+  });
+}
 
 const row = (p: TernaryPoint) => [p.xA, p.xB, p.xC];
 
@@ -230,8 +242,7 @@ function namesOf(sys: TernarySystem): [string, string, string] {
   return [sys.names.A, sys.names.B, sys.names.C];
 }
 
-function feedArgs(xB: unknown, xC: unknown, T: unknown, params: unknown, what = 'feed') {
-  const sys = ternarySystem(params);
+function feedArgs(sys: TernarySystem, xB: unknown, xC: unknown, T: unknown, what = 'feed') {
   const z = composition(xB, xC, what);
   return { sys, z, TK: tempIn(sys, T) };
 }

@@ -286,6 +286,11 @@ describe('bad inputs', () => {
     ['a temperature below 0 K', () => t.tPhases(0.4 as any, 0.1 as any, -5, RK as any), '#NUM!', 'absolute zero'],
     ['two molar masses', () => t.tDist('C', 0.4 as any, 0.1 as any, T, RK as any, [[18, 60]] as any), '#VALUE!', 'molar masses of A, B and C'],
   ];
+  it('a core failure names the temperature in the card\'s unit', () => {
+    const e = failure(() => t.tDist('C', 0.005 as any, 0.05 as any, 26.85, [...RK, ['temperature', '°C']] as any));
+    expect(e.code).toBe('#N/A');
+    expect(e.message).toContain('is one phase at T = 26.85 °C');
+  });
   for (const [what, f, code, text] of rows) {
     it(what, () => {
       const e = failure(f);

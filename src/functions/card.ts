@@ -61,10 +61,10 @@ const isTitle = (key: unknown, value: unknown) =>
  * value); one laid out in two rows (keys in the first, values in the second, `model` among the
  * keys) is read column by column. A title row (or column) `key | value` is skipped.
  */
-function cardEntries(grid: unknown[][]): Array<{ key: unknown; value: unknown; rest: unknown[]; where: string }> {
+export function cardEntries(grid: unknown[][], keyTest: (v: unknown) => boolean = isKey): Array<{ key: unknown; value: unknown; rest: unknown[]; where: string }> {
   const filled = grid.filter((row) => !row.every(isEmpty));
   const head = filled[0]?.filter((v, j) => !isEmpty(v) && !(j === 0 && isTitle(v, filled[1]?.[0])));
-  const inRows = filled.length === 2 && head.length >= 2 && head.every(isKey) && head.some((v) => canonicalKey(v as string) === 'model');
+  const inRows = filled.length === 2 && head.length >= 2 && head.every(keyTest) && head.some((v) => typeof v === 'string' && v.trim().toLowerCase() === 'model');
   let pairs: Array<{ key: unknown; value: unknown; rest: unknown[]; where: string }>;
   if (inRows) {
     const width = Math.max(filled[0].length, filled[1].length);

@@ -17,6 +17,7 @@ import { activities, decompositionGain, drivingForce, excessGibbs, expOfLog } fr
 import { asFailure, cell, cellOf, component, energyOut, fraction, number, ordinal, phaseSide, system, temperatureIn, temperatureOut, unitsOf } from './args';
 import { CellFailure } from './errors';
 import { GAPTABLE_ROWS } from './shapes';
+import { isTernaryCard, ternarySystem } from './ternaryCard';
 
 /**
  * Low (A-rich) boundary of a miscibility gap: the mole fraction of B of the A-rich phase that
@@ -377,6 +378,7 @@ export function decompGain(x0: number, T: number, params: any[][]): number {
  */
 export function checkCard(params: any[][]): string {
   return cell(() => {
+    if (isTernaryCard(params)) return ternarySystem(params).description;
     const sys = system(params);
     const names = sys.names.A !== 'A' || sys.names.B !== 'B' ? `; A = ${sys.names.A}, B = ${sys.names.B}` : '';
     let critical: string;

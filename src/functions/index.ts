@@ -1,3 +1,4 @@
 /** Every cell function, for the hosts (each file is listed in ./sources.js for the metadata). */
 export * from './functions';
 export * from './fitting';
+export * from './ternary';

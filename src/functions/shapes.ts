@@ -7,6 +7,9 @@
  *   FITTIELINES  2nd argument, a whole number 1 to MAX_FIT_TERMS    3
  *   FITCRIT      2                                                  3
  *   FITNRTL      6                                                  2
+ *   TSPLIT       3 (empty rows after the last phase)                4
+ *   TPLAIT       1                                                  3
+ *   TTRIANGLE    3                                                  3
  * Every other function: one cell.
  */
 export type LiteralArg = number | string | boolean | undefined;
@@ -43,6 +46,9 @@ const rules: Record<string, (args: LiteralArg[]) => Shape> = {
   FITTIELINES: (args) => counted(args, 'FITTIELINES', 1, 'terms', 1, MAX_FIT_TERMS, '=MIXGAP.FITTIELINES(A2:C9, 2, TRUE)', 3),
   FITCRIT: () => ({ rows: 2, cols: 3 }),
   FITNRTL: () => ({ rows: 6, cols: 2 }),
+  TSPLIT: () => ({ rows: 3, cols: 4 }),
+  TPLAIT: () => ({ rows: 1, cols: 3 }),
+  TTRIANGLE: () => ({ rows: 3, cols: 3 }),
 };
 
 /** Rows and columns of a function's spilled result, or why it cannot be known from the formula text. */

@@ -7,7 +7,7 @@
  * Amounts are in moles (moles of lattice sites for Flory–Huggins, whose fractions are volume
  * fractions); any consistent unit works, as only ratios enter.
  */
-import { fail } from '../errors';
+import { fail, kelvin, msg } from '../errors';
 import { checkComposition, type TernaryModel } from './model';
 import { splitFeed, type TernaryPoint } from './split';
 
@@ -55,8 +55,8 @@ export function extractionStage(model: TernaryModel, T: number, feed: Stream, so
   }
   checkComposition(z.xA, z.xB, z.xC, 'the mixture of feed and solvent');
   const r = splitFeed(model, T, z.xA, z.xB, z.xC);
-  if (r.phases.length === 1) fail('none', `feed and solvent mix to one liquid phase at T = ${T} K: no extraction at this solvent ratio`);
-  if (r.phases.length === 3) fail('none', `feed and solvent form three liquid phases at T = ${T} K: a single extract and raffinate are not defined`);
+  if (r.phases.length === 1) fail('none', msg`feed and solvent mix to one liquid phase at T = ${kelvin(T)}: no extraction at this solvent ratio`);
+  if (r.phases.length === 3) fail('none', msg`feed and solvent form three liquid phases at T = ${kelvin(T)}: a single extract and raffinate are not defined`);
   const k = main(solvent.x);
   const e = part(r.phases[1], k) > part(r.phases[0], k) ? 1 : 0;
   return {
@@ -127,5 +127,5 @@ export function counterCurrent(model: TernaryModel, T: number, feed: Stream, sol
     for (let n = 0; n < N - 1; n++) extractIn[n] = stages[n + 1].extract;
     if (sweep > 0 && change <= 1e-12) return { stages, extract: stages[0].extract, raffinate: stages[N - 1].raffinate };
   }
-  fail('convergence', `counter-current extraction with ${N} stages at T = ${T} K did not settle in ${MAX_SWEEPS} sweeps`);
+  fail('convergence', msg`counter-current extraction with ${N} stages at T = ${kelvin(T)} did not settle in ${MAX_SWEEPS} sweeps`);
 }

@@ -6,6 +6,8 @@
  * The edge (i, j) with the third component absent is the binary NRTL model with i as its component 1.
  */
 import { fail } from '../errors';
+import type { CardValues } from '../family';
+import { pairKey, PAIRS, type TernaryFamily } from './family';
 import { EA, EAA, EAB, EAC, EB, EBB, EBC, EC, ECC, EG, TernaryIsothermBase, type TernaryModel } from './model';
 
 /** tau_ij = a_ij + b_ij / T (a dimensionless, b in K) for i != j, and alpha per pair. */
@@ -107,3 +109,45 @@ class NrtlTernaryIsotherm extends TernaryIsothermBase {
     e[EBB] = RT * this.hess(1, 1); e[EBC] = RT * this.hess(1, 2); e[ECC] = RT * this.hess(2, 2);
   }
 }
+
+/** `a12`, `b12`, `a21`, `b21`, `alpha` (any case) after a pair prefix: the binary NRTL card's keys. */
+function nrtlRest(rest: string): string | undefined {
+  const r = rest.trim().toLowerCase();
+  return ['a12', 'b12', 'a21', 'b21', 'alpha'].includes(r) ? r : undefined;
+}
+
+/**
+ * Cards `model | nrtl` with each pair's binary NRTL keys behind its prefix: in the pair (i, j),
+ * component 1 is i and 2 is j, so AC.a21 is a_31 and BC.b12 is b_23.
+ */
+export const ternaryNrtlFamily: TernaryFamily = {
+  name: 'nrtl',
+  aliases: [],
+  keys: PAIRS.flatMap((p) => ['a12', 'b12', 'a21', 'b21', 'alpha'].map((k) => `${p}.${k}`)),
+  canonical(raw) {
+    const p = pairKey(raw);
+    const rest = p && nrtlRest(p.rest);
+    return p && rest ? `${p.pair}.${rest}` : undefined;
+  },
+  note: 'each pair AB, AC, BC has the binary keys a12, b12, a21, b21, alpha behind its prefix',
+  composition: 'mole fraction',
+  keyRows: [
+    { keys: ['AB.a12', 'AB.b12', 'AB.a21', 'AB.b21'], meaning: 'tau_ij = a_ij + b_ij / T (b in K) of the pair A–B: 1 = A, 2 = B (likewise the pair A–C: 1 = A, 2 = C; B–C: 1 = B, 2 = C)' },
+    { keys: ['AB.alpha', 'AC.alpha', 'BC.alpha'], meaning: 'non-randomness of each pair, G_ij = exp(-alpha tau_ij)' },
+  ],
+  fromCard(card: CardValues) {
+    const v: Record<string, number> = {};
+    const words: string[] = [];
+    for (const pair of PAIRS) {
+      const n = (k: string) => card.num(`${pair}.${k}`);
+      const a12 = n('a12'), b12 = n('b12'), a21 = n('a21'), b21 = n('b21'), alpha = n('alpha');
+      if (a12 === undefined && b12 === undefined) fail('input', `a ternary nrtl card needs "${pair}.a12" and/or "${pair}.b12" (tau12 = a12 + b12 / T of the pair ${pair[0]}–${pair[1]})`);
+      if (a21 === undefined && b21 === undefined) fail('input', `a ternary nrtl card needs "${pair}.a21" and/or "${pair}.b21" (tau21 = a21 + b21 / T of the pair ${pair[0]}–${pair[1]})`);
+      if (alpha === undefined) fail('input', `a ternary nrtl card needs "${pair}.alpha" (non-randomness of the pair ${pair[0]}–${pair[1]}, typically 0.2 to 0.47)`);
+      const [i, j] = [1 + 'ABC'.indexOf(pair[0]), 1 + 'ABC'.indexOf(pair[1])];
+      v[`a${i}${j}`] = a12 ?? 0; v[`b${i}${j}`] = b12 ?? 0; v[`a${j}${i}`] = a21 ?? 0; v[`b${j}${i}`] = b21 ?? 0; v[`alpha${i}${j}`] = alpha;
+      words.push(`${pair}: tau12 = ${a12 ?? 0} + ${b12 ?? 0}/T, tau21 = ${a21 ?? 0} + ${b21 ?? 0}/T, alpha = ${alpha}`);
+    }
+    return { model: ternaryNrtl(v as unknown as TernaryNrtlParameters), description: `ternary NRTL, ${words.join('; ')} (T in K)` };
+  },
+};

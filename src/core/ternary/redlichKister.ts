@@ -7,7 +7,9 @@
  * is exactly the binary Redlich–Kister model with i as its A and j as its B.
  */
 import { fail } from '../errors';
+import { signed, type CardValues } from '../family';
 import type { RedlichKisterTerm } from '../models/redlichKister';
+import { pairKey, PAIRS, refuseBoth, type TernaryFamily } from './family';
 import { checkTerm, EA, EAA, EAB, EAC, EB, EBB, EBC, EC, ECC, EG, TernaryIsothermBase, termAt, type TemperatureTerm, type TernaryModel } from './model';
 
 export interface TernaryRedlichKisterParameters {
@@ -121,3 +123,87 @@ class RedlichKisterTernaryIsotherm extends TernaryIsothermBase {
     e[sij] += P + d * P1 - w * P2;
   }
 }
+
+/** `L<k>` or `L<k>.b` / `L<k>.c` (any case; `.a` is the plain key) after a pair prefix. */
+function termRest(rest: string): string | undefined {
+  const m = /^l(\d+)(?:\.([abc]))?$/i.exec(rest);
+  if (!m) return undefined;
+  return m[2] && m[2].toLowerCase() !== 'a' ? `L${Number(m[1])}.${m[2].toLowerCase()}` : `L${Number(m[1])}`;
+}
+
+/** `ABC.M`, `ABC.MA`, `ABC.MB`, `ABC.MC`, each optionally with `.b` or `.c` (any case). */
+function ternaryTermKey(raw: string): string | undefined {
+  const m = /^abc\.m([abc]?)(?:\.([abc]))?$/i.exec(raw.trim());
+  if (!m) return undefined;
+  const which = m[1].toUpperCase();
+  return m[2] && m[2].toLowerCase() !== 'a' ? `ABC.M${which}.${m[2].toLowerCase()}` : `ABC.M${which}`;
+}
+
+const temperatureTerm = (t: TemperatureTerm) => `${t.a}${signed(t.b, 'T')}${signed(t.c, 'T ln T')}`;
+
+/** Cards `model | redlich-kister` with pair-prefixed terms: AB.L0, AB.L1.b, AC.L0, BC.L0, ABC.M, ... */
+export const ternaryRedlichKisterFamily: TernaryFamily = {
+  name: 'redlich-kister',
+  aliases: ['rk'],
+  keys: ['AB.L0', 'AB.L0.b', 'AB.L0.c', 'AC.L0', 'BC.L0', 'ABC.M', 'ABC.MA', 'ABC.MB', 'ABC.MC'],
+  canonical(raw) {
+    const p = pairKey(raw);
+    if (p) {
+      const rest = termRest(p.rest);
+      return rest === undefined ? undefined : `${p.pair}.${rest}`;
+    }
+    return ternaryTermKey(raw);
+  },
+  note: 'AB.L1, AC.L2.b, ... for more terms of a pair; ABC.M (.b, .c) or ABC.MA, ABC.MB, ABC.MC for the ternary term',
+  composition: 'mole fraction',
+  keyRows: [
+    { keys: ['AB.L0', 'AB.L1', '...', 'AC.L0', '...', 'BC.L0', '...'], meaning: 'constant part a of L_k of each pair (the binary card\'s L_k), energy unit; every pair needs at least its L0 (0 for an ideal pair)' },
+    { keys: ['AB.L0.b', 'AB.L0.c', '...'], meaning: 'b and c of L_k = a + b T + c T ln T of a pair, energy unit per K (T in K)' },
+    { keys: ['ABC.M', 'ABC.M.b', 'ABC.M.c'], meaning: 'one ternary term M = M_A = M_B = M_C (a + b T + c T ln T), energy unit; optional' },
+    { keys: ['ABC.MA', 'ABC.MB', 'ABC.MC'], meaning: 'or three ternary terms M_A, M_B, M_C (all three, each with .b and .c if needed), energy unit' },
+  ],
+  fromCard(card: CardValues) {
+    const J = card.energy.toJoulePerMole;
+    const terms = PAIRS.map((pair) => {
+      const more = card.keys.filter((k) => k.startsWith(`${pair}.L`)).map((k) => Number(/^..\.L(\d+)/.exec(k)![1]));
+      if (more.length === 0) fail('input', `a ternary redlich-kister card needs "${pair}.L0" (write ${pair}.L0 | 0 for a pair without interaction)`);
+      const n = Math.max(...more) + 1;
+      const list: RedlichKisterTerm[] = [];
+      for (let k = 0; k < n; k++) {
+        const a = card.num(`${pair}.L${k}`), b = card.num(`${pair}.L${k}.b`), c = card.num(`${pair}.L${k}.c`);
+        if (a === undefined && b === undefined && c === undefined) fail('input', `"${pair}.L${k}" is missing while "${pair}.L${n - 1}" is given: write ${pair}.L${k} | 0 for a term that is zero`);
+        list.push({ a: a ?? 0, b: b ?? 0, c: c ?? 0 });
+      }
+      return list;
+    });
+    const one = ['ABC.M', 'ABC.M.b', 'ABC.M.c'];
+    const three = ['A', 'B', 'C'].flatMap((i) => [`ABC.M${i}`, `ABC.M${i}.b`, `ABC.M${i}.c`]);
+    refuseBoth(card, one, three, 'ABC.M is one term for M_A = M_B = M_C');
+    const termOf = (k: string): TemperatureTerm | undefined => {
+      const a = card.num(k), b = card.num(`${k}.b`), c = card.num(`${k}.c`);
+      return a === undefined && b === undefined && c === undefined ? undefined : { a: a ?? 0, b: b ?? 0, c: c ?? 0 };
+    };
+    let M: [TemperatureTerm, TemperatureTerm, TemperatureTerm] | undefined;
+    const single = termOf('ABC.M');
+    if (single) M = [single, single, single];
+    else {
+      const each = ['A', 'B', 'C'].map((i) => termOf(`ABC.M${i}`));
+      const given = each.findIndex((t) => t !== undefined);
+      if (given >= 0) {
+        const missing = each.findIndex((t) => t === undefined);
+        if (missing >= 0) fail('input', `"ABC.M${'ABC'[missing]}" is missing while "ABC.M${'ABC'[given]}" is given: give all three of ABC.MA, ABC.MB, ABC.MC (0 for none), or one ABC.M`);
+        M = each as [TemperatureTerm, TemperatureTerm, TemperatureTerm];
+      }
+    }
+    const scale = (t: TemperatureTerm) => ({ a: t.a * J, b: t.b * J, c: t.c * J });
+    const model = ternaryRedlichKister({
+      AB: terms[0].map(scale), AC: terms[1].map(scale), BC: terms[2].map(scale),
+      ...(M ? { ternary: { A: scale(M[0]), B: scale(M[1]), C: scale(M[2]) } } : {}),
+    });
+    const pairWords = PAIRS.map((pair, n) => `${pair}: ${terms[n].map((t, k) => `L${k} = ${temperatureTerm(t)}`).join(', ')}`);
+    const ternaryWords = !M ? 'no ternary term'
+      : single ? `ABC: M = ${temperatureTerm(single)}`
+      : `ABC: MA = ${temperatureTerm(M[0])}, MB = ${temperatureTerm(M[1])}, MC = ${temperatureTerm(M[2])}`;
+    return { model, description: `ternary Redlich–Kister (Muggianu), ${pairWords.join('; ')}; ${ternaryWords} (${card.energy.name}, T in K)` };
+  },
+};

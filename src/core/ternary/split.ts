@@ -25,7 +25,7 @@
  * A feed must have all three fractions > 0: on an edge the system is the binary one of that pair,
  * whose functions answer it (and a feed 1e-12 off the edge splits like the binary gap).
  */
-import { fail } from '../errors';
+import { fail, kelvin, msg } from '../errors';
 import { solveInPlace } from './linear';
 import { checkComposition, GB, GC, HBB, HBC, HCC, LOCAL_SIZE, MUA, MUB, MUC, type TernaryIsotherm, type TernaryModel } from './model';
 
@@ -525,8 +525,8 @@ export function splitFeed(model: TernaryModel, T: number, xA: number, xB: number
     for (const c of cands) addSample(s, iso, c.p);
   }
   fail('convergence', underflow
-    ? `the phase split of the feed (${xA}, ${xB}, ${xC}) at T = ${T} K did not converge: it appears to need a phase with less than 1e-300 of one component, below what a number can hold`
-    : `the phase split of the feed (${xA}, ${xB}, ${xC}) at T = ${T} K did not converge to a verified answer (a feed very near a plait point or a phase boundary can do this: move it slightly)`);
+    ? msg`the phase split of the feed (${xA}, ${xB}, ${xC}) at T = ${kelvin(T)} did not converge: it appears to need a phase with less than 1e-300 of one component, below what a number can hold`
+    : msg`the phase split of the feed (${xA}, ${xB}, ${xC}) at T = ${kelvin(T)} did not converge to a verified answer (a feed very near a plait point or a phase boundary can do this: move it slightly)`);
 }
 
 /**

@@ -5,7 +5,7 @@
  * already lies in a known triangle is not split again. A triangle that holds no grid feed (narrower
  * than about 1/12, as near a critical end point) is not found.
  */
-import { fail, MixgapError } from '../errors';
+import { fail, kelvin, MixgapError, msg } from '../errors';
 import type { TernaryModel } from './model';
 import { splitFeed, type TernaryPoint } from './split';
 
@@ -54,6 +54,6 @@ export function threePhaseTriangles(model: TernaryModel, T: number): ThreePhaseT
       found.push({ phases, mu: r.mu });
     }
   }
-  if (failures > 0 && failures === tried) fail('convergence', `no phase split converged at T = ${T} K (${firstFailure?.message ?? ''})`);
+  if (failures > 0 && failures === tried) fail('convergence', msg`no phase split converged at T = ${kelvin(T)} (${firstFailure?.message ?? ''})`);
   return found.sort((s, t) => s.phases[0].xC - t.phases[0].xC || s.phases[0].xB - t.phases[0].xB);
 }

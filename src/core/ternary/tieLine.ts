@@ -4,7 +4,7 @@
  *   K_i = x_i'' / x_i'   (mole basis; the mass basis uses w_i = x_i M_i / sum_j x_j M_j)
  *   S_ij = K_i / K_j
  */
-import { fail } from '../errors';
+import { fail, kelvin, msg } from '../errors';
 import type { TernaryModel } from './model';
 import { splitFeed, type TernaryPoint } from './split';
 
@@ -40,8 +40,8 @@ export function tieLineAt(model: TernaryModel, T: number, xA: number, xB: number
   const r = splitFeed(model, T, xA, xB, xC);
   if (r.phases.length !== 2) {
     fail('none', r.phases.length === 1
-      ? `the feed (${xA}, ${xB}, ${xC}) is one phase at T = ${T} K: no tie-line through it`
-      : `the feed (${xA}, ${xB}, ${xC}) lies in a three-phase triangle at T = ${T} K: no single tie-line through it`);
+      ? msg`the feed (${xA}, ${xB}, ${xC}) is one phase at T = ${kelvin(T)}: no tie-line through it`
+      : msg`the feed (${xA}, ${xB}, ${xC}) lies in a three-phase triangle at T = ${kelvin(T)}: no single tie-line through it`);
   }
   const [p, q] = r.phases;
   const K = molarMasses ? distributionCoefficients(massFractions(p, molarMasses), massFractions(q, molarMasses)) : distributionCoefficients(p, q);

@@ -11,6 +11,7 @@
  *
  * A card is ternary when one of its keys is: a pair-prefixed key, an ABC. key, NC or "name C".
  */
+import { BoundedCache } from '../core/boundedCache';
 import { MixgapError } from '../core/errors';
 import { orList, type CardValues } from '../core/family';
 import type { TernaryFamily } from '../core/ternary/family';
@@ -129,18 +130,11 @@ export function readTernaryCard(grid: unknown[][]): TernarySystem {
   }
 }
 
-const MAX_SYSTEMS = 64;
-const systems = new Map<string, TernarySystem>();
+/** Ternary systems already read, by the text of their cells (64, least recently used first out). */
+const systems = new BoundedCache<TernarySystem>(64);
 
 /** The ternary system of a parameter argument (read once per distinct card). */
 export function ternarySystem(params: unknown): TernarySystem {
   const grid = toGrid(params);
-  const key = JSON.stringify(grid);
-  let known = systems.get(key);
-  if (!known) {
-    known = readTernaryCard(grid);
-    if (systems.size >= MAX_SYSTEMS) systems.delete(systems.keys().next().value as string);
-    systems.set(key, known);
-  }
-  return known;
+  return systems.get(JSON.stringify(grid), () => readTernaryCard(grid));
 }

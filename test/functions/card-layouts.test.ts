@@ -5,21 +5,11 @@
  * solve: bit-exact), and the plain card is pinned to the regular solution's closed form.
  */
 import { describe, expect, it } from 'vitest';
-import { CellFailure } from '../../src/functions/errors';
 import { checkCard, gapLow, tCrit } from '../../src/functions/functions';
+import { failure } from './support/failure';
 
 /** R from the spec (CODATA 2018, exact by the 2019 SI definitions). */
 const R = 8.314462618;
-
-function failure(f: () => unknown): CellFailure {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof CellFailure) return e;
-    throw e;
-  }
-  throw new Error('no failure: the function returned a value');
-}
 
 const plain = [['model', 'regular'], ['omega', 21], ['energy', 'kJ/mol'], ['name B', 'bexium']];
 

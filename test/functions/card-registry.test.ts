@@ -8,20 +8,10 @@ import path from 'path';
 import { describe, expect, it } from 'vitest';
 import type { ModelFamily } from '../../src/core/family';
 import { FAMILIES, familyNamed } from '../../src/core/models';
-import { CellFailure } from '../../src/functions/errors';
 import { checkCard, gapLow } from '../../src/functions/functions';
+import { failure } from './support/failure';
 
 const root = path.join(__dirname, '..', '..');
-
-function failure(f: () => unknown): CellFailure {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof CellFailure) return e;
-    throw e;
-  }
-  throw new Error('no failure: the function returned a value');
-}
 
 /** A README table row for one registry row, as the README writes it. */
 const readmeKeys = (keys: readonly string[]) => keys.map((k) => (k === '...' ? '...' : `\`${k}\``)).join(', ');

@@ -20,22 +20,12 @@ import {
   gapTable, gExcess, gMix, phaseFrac, spinHigh, spinLow, tCrit, tGap, xCrit,
 } from '../../src/functions/functions';
 import { regularBinodal } from '../core/support/closedForms';
+import { failure } from './support/failure';
 
 /** R from the spec (CODATA 2018, exact by the 2019 SI definitions). */
 const R = 8.314462618;
 
 type Card = unknown[][];
-
-/** The CellFailure that f throws (fails the test if f returns). */
-function failure(f: () => unknown): CellFailure {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof CellFailure) return e;
-    throw new Error(`not a CellFailure: ${String(e)}`);
-  }
-  throw new Error('no failure: the function returned a value');
-}
 
 /** |got - want| <= rel |want| (+ abs). */
 function expectClose(got: unknown, want: number, rel: number, what: string, abs = 0): void {

@@ -4,19 +4,9 @@
  * a number out of range, NaN and infinity included), and choice words read alike everywhere.
  */
 import { describe, expect, it } from 'vitest';
-import { CellFailure } from '../../src/functions/errors';
 import { fitNrtl, fitTieLines, gapResid, phaseMassFrac } from '../../src/functions/fitting';
 import { gapLow, phaseFrac } from '../../src/functions/functions';
-
-function failure(f: () => unknown): CellFailure {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof CellFailure) return e;
-    throw e;
-  }
-  throw new Error('no failure: the function returned a value');
-}
+import { failure } from './support/failure';
 
 // Invented tie-lines of a symmetric system (no published source: only the readers are tested here).
 const tieLine = (T: unknown) => [[T, 0.1, 0.9]];

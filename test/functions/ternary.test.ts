@@ -23,6 +23,7 @@ import * as t from '../../src/functions/ternary';
 import type { CustomFunctionsMetadata } from '../../src/hosts/engine';
 import { evaluateFormulas, type FormulaResult } from '../../src/hosts/evaluate';
 import { buildMixgapEngine } from '../../src/hosts/mixgap-engine';
+import { failure } from './support/failure';
 
 const root = path.join(__dirname, '..', '..');
 // eslint-disable-next-line @typescript-eslint/no-require-imports
@@ -61,16 +62,6 @@ function shown(f: () => unknown): unknown {
     if (e instanceof CellFailure) return { error: e.code, message: e.message };
     throw e;
   }
-}
-
-function failure(f: () => unknown): CellFailure {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof CellFailure) return e;
-    throw e;
-  }
-  throw new Error('no error');
 }
 
 /**

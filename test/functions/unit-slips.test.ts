@@ -8,21 +8,10 @@
  * in Metals and Alloys, 3rd ed. 2009, section 1.3; the closed forms of docs/conventions.md).
  */
 import { describe, expect, it } from 'vitest';
-import { CellFailure } from '../../src/functions/errors';
 import * as fns from '../../src/functions/functions';
+import { failure } from './support/failure';
 
 const R = 8.314462618;
-
-/** The failure a call throws (in Node the cell functions throw a CellFailure). */
-function failure(call: () => unknown): CellFailure {
-  try {
-    call();
-  } catch (e) {
-    if (e instanceof CellFailure) return e;
-    throw e;
-  }
-  throw new Error('the call returned a value');
-}
 
 describe('energies in the wrong unit', () => {
   // Meant 21000 J/mol, typed under kJ/mol: Tc = 21e6 / 2R = 1.26e6 K, far above 20000 K, so the

@@ -83,17 +83,26 @@ export function isCard(grid: unknown[][]): boolean {
 }
 
 /** Reads a card (a range of key/value rows, or of a key row and a value row) into a system. */
-export function readCard(grid: unknown[][]): System {
+/**
+ * The values of a card by canonical key, with readers for text and numbers (a number stored as
+ * text, as a CSV import leaves it, is the number). Every malformed row is a #VALUE! naming it.
+ * `canonical` spells a raw key the reader's way; `keyTest` tells a key cell from a value cell
+ * (for cards laid out in two rows).
+ */
+export function cardValues(grid: unknown[][], canonical: (raw: string) => string, keyTest?: (v: unknown) => boolean): {
+  entries: Map<string, unknown>;
+  text(key: string): string | undefined;
+  num(key: string): number | undefined;
+} {
   const entries = new Map<string, unknown>();
-  cardEntries(grid).forEach(({ key: rawKey, value, rest, where }) => {
+  cardEntries(grid, keyTest).forEach(({ key: rawKey, value, rest, where }) => {
     if (rest.some((v) => !isEmpty(v))) throw bad(`${where} has more than two cells: a card has a key column and a value column`);
     if (typeof rawKey !== 'string' || rawKey.trim() === '') throw bad(`${where} has no key in its first cell (found ${JSON.stringify(rawKey ?? '')})`);
-    const key = canonicalKey(rawKey);
+    const key = canonical(rawKey);
     if (entries.has(key)) throw bad(`the key "${key}" appears twice: keep one`);
     if (isEmpty(value)) throw bad(`"${key}" has no value: fill the cell beside it or remove the row`);
     entries.set(key, value);
   });
-
   const text = (key: string): string | undefined => {
     const v = entries.get(key);
     if (v === undefined) return undefined;
@@ -103,12 +112,16 @@ export function readCard(grid: unknown[][]): System {
   const num = (key: string): number | undefined => {
     const v = entries.get(key);
     if (v === undefined) return undefined;
-    // a number stored as text ("21000", as a CSV import leaves it) is the number
     if (typeof v === 'string' && numberText(v) !== undefined) return numberText(v);
     if (typeof v !== 'number') throw bad(`"${key}" must be a number (got ${JSON.stringify(v)})`);
     if (!Number.isFinite(v)) throw bad(`"${key}" must be a finite number (got ${String(v)})`);
     return v;
   };
+  return { entries, text, num };
+}
+
+export function readCard(grid: unknown[][]): System {
+  const { entries, text, num } = cardValues(grid, canonicalKey);
 
   const modelText = text('model');
   if (modelText === undefined) throw bad(`no "model" key: add a row model | ${orList(FAMILY_NAMES)}`);

@@ -18,8 +18,8 @@ import type { TernaryFamily } from '../core/ternary/family';
 import { TERNARY_FAMILIES, ternaryFamilyNamed } from '../core/ternary/families';
 import type { TernaryModel } from '../core/ternary/model';
 import { energyUnit, temperatureUnit, type EnergyUnit, type TemperatureUnit } from '../core/units';
-import { cardEntries, unitNote } from './card';
-import { isEmpty, numberText, toGrid } from './cells';
+import { cardValues, unitNote } from './card';
+import { toGrid } from './cells';
 import { CellFailure } from './errors';
 
 export interface TernarySystem {
@@ -68,29 +68,7 @@ export function readTernaryCard(grid: unknown[][]): TernarySystem {
   if (!grid.some((row) => row.some(ternaryOnly))) {
     throw bad('this is not a ternary card: a three-component function needs a card with the keys of a pair, such as AB.L0 | 12000, AC.L0 | ..., BC.L0 | ... (see the README, "Three components")');
   }
-  const entries = new Map<string, unknown>();
-  cardEntries(grid, isKey).forEach(({ key: rawKey, value, rest, where }) => {
-    if (rest.some((v) => !isEmpty(v))) throw bad(`${where} has more than two cells: a card has a key column and a value column`);
-    if (typeof rawKey !== 'string' || rawKey.trim() === '') throw bad(`${where} has no key in its first cell (found ${JSON.stringify(rawKey ?? '')})`);
-    const key = canonicalKey(rawKey);
-    if (entries.has(key)) throw bad(`the key "${key}" appears twice: keep one`);
-    if (isEmpty(value)) throw bad(`"${key}" has no value: fill the cell beside it or remove the row`);
-    entries.set(key, value);
-  });
-  const text = (key: string): string | undefined => {
-    const v = entries.get(key);
-    if (v === undefined) return undefined;
-    if (typeof v !== 'string') throw bad(`"${key}" must be text (got ${JSON.stringify(v)})`);
-    return v.trim();
-  };
-  const num = (key: string): number | undefined => {
-    const v = entries.get(key);
-    if (v === undefined) return undefined;
-    if (typeof v === 'string' && numberText(v) !== undefined) return numberText(v);
-    if (typeof v !== 'number') throw bad(`"${key}" must be a number (got ${JSON.stringify(v)})`);
-    if (!Number.isFinite(v)) throw bad(`"${key}" must be a finite number (got ${String(v)})`);
-    return v;
-  };
+  const { entries, text, num } = cardValues(grid, canonicalKey, isKey);
 
   const modelText = text('model');
   if (modelText === undefined) throw bad(`no "model" key: add a row model | ${orList(FAMILY_NAMES)}`);

@@ -145,18 +145,40 @@ let partnerBranch: Branch;
 let partnerEstimate = 0;
 const innerCell: SignCell = { a: 0, b: 0, fa: 0, fb: 0 }, outerCell: SignCell = { a: 0, b: 0, fa: 0, fb: 0 };
 
+/** Scratch for g, g', g'' (Isotherm.derivatives), one per caller so that none overwrites another's. */
+const derSlope = new Float64Array(3), derTangent = new Float64Array(3), derEstimate1 = new Float64Array(3), derEstimate2 = new Float64Array(3), derSolve = new Float64Array(3);
+
+/**
+ * g' at the last two cell ends asked for, per isotherm: the partner solves of one canonicalGap
+ * ask for the same sign cell with slightly different slopes m (a pure function of u: the same bits).
+ */
+let memoIso: Isotherm | undefined;
+let memoU0 = NaN, memoU1 = NaN, memoD0 = 0, memoD1 = 0;
+
 /** g'(u) - m. */
 function slopeGap(u: number): number {
+  const iso = solveIso;
+  if (iso === memoIso) {
+    if (u === memoU0) return memoD0 - solveM;
+    if (u === memoU1) return memoD1 - solveM;
+  } else {
+    memoIso = iso;
+    memoU0 = memoU1 = NaN;
+  }
   splitRatio(u, xyCell);
-  return solveIso.dg(xyCell[0], xyCell[1]) - solveM;
+  const d = iso.dg(xyCell[0], xyCell[1]);
+  memoU0 = memoU1; memoD0 = memoD1;
+  memoU1 = u; memoD1 = d;
+  return d - solveM;
 }
 
 /** g'(u) - m and its slope d g'/du = x y g''. */
 function slopeGapNewton(u: number, out: Float64Array): number {
   splitRatio(u, xyCell);
   const x = xyCell[0], y = xyCell[1];
-  out[0] = x * y * solveIso.d2g(x, y);
-  return solveIso.dg(x, y) - solveM;
+  solveIso.derivatives(x, y, derSlope);
+  out[0] = x * y * derSlope[2];
+  return derSlope[1] - solveM;
 }
 
 /**
@@ -179,9 +201,10 @@ function tangentGap(u: number, out?: Float64Array): number {
   const iso = solveIso;
   splitRatio(u, xyCell);
   const x1 = xyCell[0], y1 = xyCell[1];
-  const m = iso.dg(x1, y1);
-  const mu1 = iso.g(x1, y1) - x1 * m;
-  const c1 = x1 * y1 * iso.d2g(x1, y1);
+  iso.derivatives(x1, y1, derTangent);
+  const m = derTangent[1];
+  const mu1 = derTangent[0] - x1 * m;
+  const c1 = x1 * y1 * derTangent[2];
   const v = canonicalSlopePoint(iso, partnerBranch, m, partnerEstimate);
   if (v === undefined) return NaN;
   partnerEstimate = v; // the next point is near (the answer does not depend on the estimate)
@@ -234,10 +257,12 @@ function tangentNewton(iso: Isotherm, start: Gap, s1: number, s2: number): boole
     const x1 = xyCell[0], y1 = xyCell[1];
     splitRatio(u2, xyCell);
     const x2 = xyCell[0], y2 = xyCell[1];
-    const d1 = iso.dg(x1, y1), d2 = iso.dg(x2, y2);
+    iso.derivatives(x1, y1, derEstimate1);
+    iso.derivatives(x2, y2, derEstimate2);
+    const d1 = derEstimate1[1], d2 = derEstimate2[1];
     const G1 = d1 - d2;
-    const G2 = iso.g(x1, y1) - x1 * d1 - (iso.g(x2, y2) - x2 * d2);
-    const c1 = x1 * y1 * iso.d2g(x1, y1), c2 = x2 * y2 * iso.d2g(x2, y2);
+    const G2 = derEstimate1[0] - x1 * d1 - (derEstimate2[0] - x2 * d2);
+    const c1 = x1 * y1 * derEstimate1[2], c2 = x2 * y2 * derEstimate2[2];
     // c1 du1 - c2 du2 = -G1;  -x1 c1 du1 + x2 c2 du2 = -G2
     const b = -(G2 + x1 * G1) / (x2 - x1);
     const a = b - G1;
@@ -356,10 +381,11 @@ export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
   for (let iter = 0; iter < 300; iter++) {
     splitRatio(u, xy);
     const x = xy[0], y = xy[1];
-    const f = iso.dg(x, y) - m;
+    iso.derivatives(x, y, derSolve);
+    const f = derSolve[1] - m;
     if (f === 0) { br.guess = u; return u; }
     if (f < 0) lo = u; else hi = u;
-    const step = f / (x * y * iso.d2g(x, y));
+    const step = f / (x * y * derSolve[2]);
     // Newton converges quadratically here: after a step below NEWTON_STEP (1e-12) the error is below 1e-20.
     // (Tested on the raw step: one that lands within an ulp of the root may touch the bracket.)
     if (Math.abs(step) <= NEWTON_STEP * Math.max(1, Math.abs(u))) {

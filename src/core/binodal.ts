@@ -436,15 +436,19 @@ export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
  * is phaseMap's, bit for bit, whatever `prev` was. Covers the common cases of no gap and of one
  * gap over one unstable interval; returns undefined (the caller then solves from scratch) for
  * anything else or when a step does not settle. `before` and `beforeThat`, the maps of the two
- * temperatures before `prev` (as a table gives them), only start the Newton solves closer: each
- * point is extrapolated from the three temperatures, so that one step usually settles it.
+ * temperatures before `prev` (as a table gives them), only start the solves closer: each point is
+ * extrapolated from the three temperatures, so that one Newton step usually settles it, and none
+ * is taken when the extrapolation has settled (see SETTLED).
  */
 export function continueMap(iso: Isotherm, prev: PhaseMap, before?: PhaseMap, beforeThat?: PhaseMap): PhaseMap | undefined {
   if (prev.spinodal.length === 0 && prev.gaps.length === 0) return { T: iso.T, gaps: [], spinodal: [] };
   if (!followable(prev)) return undefined;
   const b = before && followable(before) ? before : undefined;
   const c = b && beforeThat && followable(beforeThat) ? beforeThat : undefined;
-  const e1 = followRoot(iso, ahead(iso.T, 0, prev, b, c)), e2 = followRoot(iso, ahead(iso.T, 1, prev, b, c));
+  let e1: number | undefined = ahead(iso.T, 0, prev, b, c);
+  if (!aheadSettled) e1 = followRoot(iso, e1);
+  let e2: number | undefined = ahead(iso.T, 1, prev, b, c);
+  if (!aheadSettled) e2 = followRoot(iso, e2);
   if (e1 === undefined || e2 === undefined) return undefined;
   const s1 = spinodalRootNear(iso, e1), s2 = spinodalRootNear(iso, e2);
   if (s1 === undefined || s2 === undefined || !(s1 < s2)) return undefined;
@@ -454,8 +458,9 @@ export function continueMap(iso: Isotherm, prev: PhaseMap, before?: PhaseMap, be
   j.b = s1; j.slopeHigh = iso.dg(spinodal[0].x, spinodal[0].y); j.guess = s1 - 1;
   k.a = s2; k.slopeLow = iso.dg(spinodal[1].x, spinodal[1].y); k.guess = s2 + 1;
   if (nearCritical(iso, j, k)) return { T: iso.T, gaps: [criticalGap(iso, s1, s2)], spinodal };
-  const gap = tangentNewton(iso, ahead(iso.T, 2, prev, b, c), ahead(iso.T, 3, prev, b, c), s1, s2)
-    ? canonicalGap(iso, j, k, tangentEstimate[0], tangentEstimate[1]) : undefined;
+  const g1 = ahead(iso.T, 2, prev, b, c), settled1 = aheadSettled, g2 = ahead(iso.T, 3, prev, b, c);
+  const gap = settled1 && aheadSettled ? canonicalGap(iso, j, k, g1, g2)
+    : tangentNewton(iso, g1, g2, s1, s2) ? canonicalGap(iso, j, k, tangentEstimate[0], tangentEstimate[1]) : undefined;
   return gap && { T: iso.T, gaps: [gap], spinodal };
 }
 const lowBranch: Branch = { a: -Infinity, b: 0, slopeLow: -Infinity, slopeHigh: 0, guess: 0 };
@@ -472,23 +477,38 @@ function pointOf(map: PhaseMap, which: number): number {
 }
 
 /**
+ * An extrapolation from three temperatures is taken as the estimate itself (no Newton step) when
+ * its second-order part (quadratic minus linear extrapolation) is below SETTLED: its error, of
+ * third order, is then far below a cell (in the 1000-row table of the benchmark, 1e-8 for a
+ * second-order part up to 7e-6). A worse estimate only costs a longer walk to its cell, or a solve
+ * from scratch: the answer is the final solve's.
+ */
+const SETTLED = 1e-5;
+/** Whether the last `ahead` answer has settled (see SETTLED). */
+let aheadSettled = false;
+
+/**
  * Point `which` at T, extrapolated from the maps at up to three earlier temperatures (Lagrange's
  * polynomial through them): only a starting point, so anything not finite or far from the last
- * answer gives way to the last answer itself.
+ * answer gives way to the last answer itself. Sets aheadSettled.
  */
 function ahead(T: number, which: number, p: PhaseMap, b?: PhaseMap, c?: PhaseMap): number {
+  aheadSettled = false;
   const u0 = pointOf(p, which);
   if (!b) return u0;
   const t0 = p.T, t1 = b.T, u1 = pointOf(b, which);
-  let u: number;
-  if (!c) u = u0 + ((u0 - u1) * (T - t0)) / (t0 - t1);
-  else {
+  const linear = u0 + ((u0 - u1) * (T - t0)) / (t0 - t1);
+  let u = linear;
+  if (c) {
     const t2 = c.T, u2 = pointOf(c, which);
     u = (u0 * (T - t1) * (T - t2)) / ((t0 - t1) * (t0 - t2))
       + (u1 * (T - t0) * (T - t2)) / ((t1 - t0) * (t1 - t2))
       + (u2 * (T - t0) * (T - t1)) / ((t2 - t0) * (t2 - t1));
+    aheadSettled = Math.abs(u - linear) <= SETTLED * Math.max(1, Math.abs(u));
   }
-  return Number.isFinite(u) && Math.abs(u - u0) < 0.25 ? u : u0;
+  if (Number.isFinite(u) && Math.abs(u - u0) < 0.25) return u;
+  aheadSettled = false;
+  return u0;
 }
 
 /** An estimate of the root of q = x y g''/RT near u, by Newton's method (undefined if it does not settle nearby). */

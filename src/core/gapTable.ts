@@ -59,9 +59,9 @@ export function gapTable(model: BinaryModel, temperatures: readonly number[], n:
     const T = Ts[i];
     const iso = model.at(T);
     // Earlier answers are followed only across no critical point (then no gap opens or closes).
-    const map = (hint && !criticalBetween(hint.T, T) && continueMap(iso, hint, before, beforeThat)) || phaseMap(iso, hint);
+    const across = hint !== undefined && criticalBetween(hint.T, T);
+    const map = (hint && !across && continueMap(iso, hint, before, beforeThat)) || phaseMap(iso, hint);
     if (!critAt.has(i)) {
-      const across = hint !== undefined && criticalBetween(hint.T, T);
       beforeThat = across ? undefined : before;
       before = across ? undefined : hint;
       hint = map;

@@ -170,8 +170,10 @@ function signedQ(t: number): number {
 }
 function signedQNewton(t: number, out: Float64Array): number {
   splitRatio(t, xyRoot);
-  out[0] = rootSign * scaledCurvatureSlope(rootIso, xyRoot[0], xyRoot[1]);
-  return rootSign * scaledCurvature(rootIso, xyRoot[0], xyRoot[1]);
+  const iso = rootIso, x = xyRoot[0], y = xyRoot[1], d2 = iso.d2g(x, y);
+  // scaledCurvatureSlope and scaledCurvature, with g'' computed once
+  out[0] = rootSign * ((x * y * ((y - x) * d2 + x * y * iso.d3g(x, y))) / iso.RT);
+  return rootSign * ((x * y * d2) / iso.RT);
 }
 
 /**

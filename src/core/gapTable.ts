@@ -49,14 +49,23 @@ export function gapTable(model: BinaryModel, temperatures: readonly number[], n:
     }
   }
   const table: GapRow[] = [];
-  let hint: PhaseMap | undefined;
-  const criticalBetween = (a: number, b: number) =>
-    critical.some((c) => (c.T >= a && c.T <= b) || (c.T >= b && c.T <= a));
+  // the last three answers (at grid temperatures) start the next row
+  let hint: PhaseMap | undefined, before: PhaseMap | undefined, beforeThat: PhaseMap | undefined;
+  const criticalBetween = (a: number, b: number) => {
+    for (const c of critical) if ((c.T >= a && c.T <= b) || (c.T >= b && c.T <= a)) return true;
+    return false;
+  };
   for (let i = 0; i < rows; i++) {
     const T = Ts[i];
     const iso = model.at(T);
-    const map = (hint && !criticalBetween(hint.T, T) && continueMap(iso, hint)) || phaseMap(iso, hint);
-    if (!critAt.has(i)) hint = map;
+    // Earlier answers are followed only across no critical point (then no gap opens or closes).
+    const across = hint !== undefined && criticalBetween(hint.T, T);
+    const map = (hint && !across && continueMap(iso, hint, before, beforeThat)) || phaseMap(iso, hint);
+    if (!critAt.has(i)) {
+      beforeThat = across ? undefined : before;
+      before = across ? undefined : hint;
+      hint = map;
+    }
     let gaps: Gap[] = map.gaps;
     const c = critAt.get(i);
     if (c) {
@@ -69,9 +78,15 @@ export function gapTable(model: BinaryModel, temperatures: readonly number[], n:
       table.push({ T, low: NaN, high: NaN, spinLow: NaN, spinHigh: NaN, critical: !!c });
       continue;
     }
-    const inner = map.spinodal.filter((s) => s.x > gap.low.x && s.x < gap.high.x).map((s) => s.x);
-    const spinLow = gap.low === gap.high ? gap.low.x : inner.length ? Math.min(...inner) : NaN;
-    const spinHigh = gap.low === gap.high ? gap.low.x : inner.length ? Math.max(...inner) : NaN;
+    // the outermost spinodal points inside the gap
+    let innerLow = Infinity, innerHigh = -Infinity;
+    for (const s of map.spinodal) {
+      if (!(s.x > gap.low.x && s.x < gap.high.x)) continue;
+      if (s.x < innerLow) innerLow = s.x;
+      if (s.x > innerHigh) innerHigh = s.x;
+    }
+    const spinLow = gap.low === gap.high ? gap.low.x : innerLow <= innerHigh ? innerLow : NaN;
+    const spinHigh = gap.low === gap.high ? gap.low.x : innerLow <= innerHigh ? innerHigh : NaN;
     table.push({ T, low: gap.low.x, high: gap.high.x, spinLow, spinHigh, critical: !!c });
   }
   return table;

@@ -37,6 +37,12 @@ export interface Isotherm {
   d2g(x: number, y: number): number;
   /** d3g/dx3. */
   d3g(x: number, y: number): number;
+  /**
+   * g, g' and g'' at once, into out[0], out[1], out[2] (no allocation; for the solvers' inner
+   * loops): the logarithms and the polynomial are computed once. Each is the same bits as g, dg
+   * and d2g return, computed by the same operations in the same order.
+   */
+  derivatives(x: number, y: number, out: Float64Array): void;
 }
 
 /** A composition given by its log-ratio u = ln(x / y): x and y = 1 - x, both to full precision. */

@@ -63,6 +63,15 @@ class FloryHugginsIsotherm implements Isotherm {
     return this.RT * (1 / (this.NB * x) + 1 / (this.NA * y) - 2 * this.chi);
   }
 
+  derivatives(x: number, y: number, out: Float64Array): void {
+    const logX = Math.log(x), logY = Math.log(y);
+    // the expressions of g, dg and d2g, term for term
+    const lx = x > 0 ? x * logX : 0, ly = y > 0 ? y * logY : 0;
+    out[0] = this.RT * (lx / this.NB + ly / this.NA + this.chi * x * y);
+    out[1] = this.RT * ((logX + 1) / this.NB - (logY + 1) / this.NA + this.chi * (y - x));
+    out[2] = this.RT * (1 / (this.NB * x) + 1 / (this.NA * y) - 2 * this.chi);
+  }
+
   d3g(x: number, y: number): number {
     return this.RT * (1 / (this.NA * y * y) - 1 / (this.NB * x * x));
   }

@@ -81,6 +81,15 @@ class NrtlIsotherm implements Isotherm {
   d3g(x: number, y: number): number {
     return this.RT * (1 / (y * y) - 1 / (x * x)) + this.excess(x, y, 3);
   }
+
+  derivatives(x: number, y: number, out: Float64Array): void {
+    const logX = Math.log(x), logY = Math.log(y);
+    // the expressions of g, dg and d2g, term for term
+    const lx = x > 0 ? x * logX : 0, ly = y > 0 ? y * logY : 0;
+    out[0] = this.RT * (lx + ly) + this.excess(x, y, 0);
+    out[1] = this.RT * (logX - logY) + this.excess(x, y, 1);
+    out[2] = this.RT / (x * y) + this.excess(x, y, 2);
+  }
 }
 
 /** Cards `model | nrtl`: tau_ij = a_ij + b_ij / T and alpha. */

@@ -100,7 +100,8 @@ export const redlichKisterFamily: ModelFamily = {
 };
 
 function redlichKisterAt(terms: readonly RedlichKisterTerm[], T: number): Isotherm {
-  const L = new Float64Array(terms.length);
+  // A plain array (not a Float64Array): one isotherm per row of a sweep, and a typed array costs far more to allocate.
+  const L: number[] = new Array(terms.length).fill(0);
   const lnT = Math.log(T);
   for (let k = 0; k < terms.length; k++) L[k] = terms[k].a + terms[k].b * T + terms[k].c * T * lnT;
   return new RedlichKisterIsotherm(L, T);
@@ -119,7 +120,7 @@ function redlichKisterAt(terms: readonly RedlichKisterTerm[], T: number): Isothe
 class RedlichKisterIsotherm implements Isotherm {
   readonly RT: number;
   constructor(
-    private readonly L: Float64Array,
+    private readonly L: readonly number[],
     readonly T: number,
   ) {
     this.RT = R * T;
@@ -151,6 +152,21 @@ class RedlichKisterIsotherm implements Isotherm {
       P = P * d + L[k];
     }
     return this.RT / (x * y) - 2 * P - 4 * d * P1 + 8 * x * y * H2;
+  }
+
+  derivatives(x: number, y: number, out: Float64Array): void {
+    const L = this.L, d = y - x;
+    let P = 0, P1 = 0, H2 = 0;
+    for (let k = L.length - 1; k >= 0; k--) {
+      H2 = H2 * d + P1;
+      P1 = P1 * d + P;
+      P = P * d + L[k];
+    }
+    const lx = Math.log(x), ly = Math.log(y);
+    // the expressions of g, dg and d2g above, term for term (xlnx(x) is x ln x for x > 0, else 0)
+    out[0] = this.RT * ((x > 0 ? x * lx : 0) + (y > 0 ? y * ly : 0)) + x * y * P;
+    out[1] = this.RT * (lx - ly) + d * P - 2 * x * y * P1;
+    out[2] = this.RT / (x * y) - 2 * P - 4 * d * P1 + 8 * x * y * H2;
   }
 
   d3g(x: number, y: number): number {

@@ -2,7 +2,7 @@ import { curvatureMap, spinodalRootNear } from './curvature';
 import { fail, kelvin, MixgapError, msg } from './errors';
 import type { Isotherm, Point } from './model';
 import { logRatio, muA, pointAt, splitRatio } from './model';
-import { BRACKET_WIDTH, DILUTE_LIMIT, ENERGY_UNIT_HINT, ESTIMATE, NEAR_CRITICAL_DROP, NEWTON_STEP, SLOPE_STEP, U_LIMIT } from './limits';
+import { BRACKET_WIDTH, DILUTE_LIMIT, ENERGY_UNIT_HINT, ESTIMATE, SETTLED, NEAR_CRITICAL_DROP, NEWTON_STEP, SLOPE_STEP, U_LIMIT } from './limits';
 import { cellNewton, signCell, type SignCell } from './roots';
 
 /** One miscibility gap at a temperature: the two coexisting compositions and their common tangent. */
@@ -476,14 +476,6 @@ function pointOf(map: PhaseMap, which: number): number {
   return which < 2 ? map.spinodal[which].u : which === 2 ? map.gaps[0].low.u : map.gaps[0].high.u;
 }
 
-/**
- * An extrapolation from three temperatures is taken as the estimate itself (no Newton step) when
- * its second-order part (quadratic minus linear extrapolation) is below SETTLED: its error, of
- * third order, is then far below a cell (in the 1000-row table of the benchmark, 1e-8 for a
- * second-order part up to 7e-6). A worse estimate only costs a longer walk to its cell, or a solve
- * from scratch: the answer is the final solve's.
- */
-const SETTLED = 1e-5;
 /** Whether the last `ahead` answer has settled (see SETTLED). */
 let aheadSettled = false;
 

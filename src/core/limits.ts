@@ -41,5 +41,12 @@ export const CELL = 2 ** -20;
 /** A Newton estimate may start a canonical final solve after a step below ESTIMATE max(1, |u|): its error is then of order 1e-8, within a cell or two. */
 export const ESTIMATE = 1e-4;
 
+/**
+ * An extrapolation from three temperatures is taken as the estimate itself (no Newton step) when
+ * its second-order part (quadratic minus linear extrapolation) is below SETTLED: its error, of
+ * third order, is then far below a cell (1e-8 in the benchmark's 1000-row table). A worse estimate
+ * only costs a longer walk to its cell: the answer is the final solve's.
+ */
+export const SETTLED = 1e-5;
 /** A previous solve seeds a new one when its temperature is within WARM_WINDOW T (farther, a cold start is as fast). */
 export const WARM_WINDOW = 0.1;

@@ -1,0 +1,56 @@
+/**
+ * The fused evaluation `Isotherm.derivatives(x, y, out)` (g, g', g'' at once, used in the solvers'
+ * inner loops) must give exactly the bits of `g`, `dg` and `d2g`: the solvers' canonical final
+ * solves, and so every result, depend on it (the bits are our own contract, no outside source;
+ * the values themselves are checked against mathjs symbolic derivatives in the other model tests).
+ * Seeded random compositions over the whole range, both dilute ends included.
+ */
+import { describe, expect, it } from 'vitest';
+import type { BinaryModel } from '../../../src/core/model';
+import { splitRatio } from '../../../src/core/model';
+import { floryHuggins } from '../../../src/core/models/floryHuggins';
+import { nrtl } from '../../../src/core/models/nrtl';
+import { redlichKister } from '../../../src/core/models/redlichKister';
+
+/** mulberry32 (T. Ettinger, public domain, 2017): a seeded uniform in [0, 1). */
+function uniform(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+// Invented parameters, one system per model, temperature-dependent where the model allows it.
+const models: Array<[string, BinaryModel]> = [
+  ['Redlich–Kister, 3 terms with b and c', redlichKister([{ a: 21000, b: -4, c: 0.3 }, { a: 3000, b: 1, c: 0 }, { a: -1500, b: 0, c: 0 }])],
+  ['Flory–Huggins, NA = 1, NB = 1000', floryHuggins({ NA: 1, NB: 1000, A: 0.1, B: 200 })],
+  ['NRTL', nrtl({ a12: -1.2, b12: 1150, a21: 0.8, b21: 520, alpha: 0.25 })],
+];
+
+describe('derivatives(x, y) gives the bits of g, dg and d2g (seed 4242)', () => {
+  for (const [name, model] of models) {
+    it(name, () => {
+      const next = uniform(4242);
+      const out = new Float64Array(3);
+      const xy = new Float64Array(2);
+      let checked = 0;
+      for (const T of [250, 313.15, 800, 1500]) {
+        const iso = model.at(T);
+        for (let i = 0; i < 500; i++) {
+          splitRatio(-700 + 1400 * next(), xy); // u = ln(x/y) over the whole solved range
+          const [x, y] = xy;
+          iso.derivatives(x, y, out);
+          expect(Object.is(out[0], iso.g(x, y)), `g at x = ${x}, T = ${T}`).toBe(true);
+          expect(Object.is(out[1], iso.dg(x, y)), `g' at x = ${x}, T = ${T}`).toBe(true);
+          expect(Object.is(out[2], iso.d2g(x, y)), `g'' at x = ${x}, T = ${T}`).toBe(true);
+          checked++;
+        }
+      }
+      expect(checked).toBe(2000);
+    });
+  }
+});

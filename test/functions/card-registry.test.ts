@@ -3,6 +3,7 @@
  * table and the help pages are made from: every family's keys are read as that family's keys, the
  * README table lists exactly the registry's rows, and the built help pages carry them.
  */
+import { TERNARY_FAMILIES } from '../../src/core/ternary/families';
 import { existsSync, readFileSync } from 'fs';
 import path from 'path';
 import { describe, expect, it } from 'vitest';
@@ -73,11 +74,11 @@ describe('the README card table is the registry', () => {
 
 describe('the help pages carry the registry', () => {
   const index = path.join(root, 'dist', 'help', 'index.html');
-  it.runIf(existsSync(index))('every key row of every family is a row of the card table', () => {
+  it.runIf(existsSync(index))('every key row of every family, binary and ternary, is a row of a card table', () => {
     // the page's text without tags (the build minifies its HTML); subscripts lose their mark-up
     // cells start with '|'
     const text = readFileSync(index, 'utf8').replace(/<t[dhr]\b[^>]*>/g, '|').replace(/<[^>]*>/g, '').replace(/&#39;|&apos;/g, "'");
-    for (const f of FAMILIES) {
+    for (const f of [...FAMILIES, ...TERNARY_FAMILIES]) {
       for (const r of f.keyRows) {
         const keys = r.keys.map((k) => (k === '...' ? '…' : k)).join(', ');
         expect(text).toContain(`|${keys}|${f.name}|${r.meaning.replace(/_/g, '')}`);

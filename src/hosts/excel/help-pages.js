@@ -38,6 +38,10 @@ function loadSource(relative) {
 /** The model families of src/core/models/index.ts. */
 const loadFamilies = () => loadSource('core/models/index.ts').FAMILIES;
 
+/** The three-component families of src/core/ternary/families.ts (loaded once, when a page needs them). */
+let ternaryFamilies;
+const loadTernaryFamilies = () => (ternaryFamilies ??= loadSource('core/ternary/families.ts').TERNARY_FAMILIES);
+
 const { NAMESPACE } = loadSource('functions/namespace.ts');
 
 /** Plain text of the registry with `_k`, `_ij` as subscripts. */
@@ -93,6 +97,13 @@ ${modelRow(families)}
 ${familyRows(families).join('\n')}
   <tr><td><code>energy</code>, <code>temperature</code></td><td>all</td><td>units, see above</td></tr>
   <tr><td><code>name A</code>, <code>name B</code></td><td>all</td><td>names of the components, used in messages</td></tr>
+</table>
+<h3>Three-component cards</h3>
+<p>A card with the keys of a pair (<code>AB.</code>, <code>AC.</code>, <code>BC.</code> before a binary card's key), a ternary term (<code>ABC.</code>), <code>NC</code> or <code>name C</code> describes three components A, B and C, for the three-component functions (TPHASES, TSPLIT, TDIST, TSELECT, TPLAIT, TTRIANGLE, TACTIVITY, TCHEMPOT, TGMIX). Every pair must be given; units and names as above.</p>
+<table>
+  <tr><th>key</th><th>model</th><th>value</th></tr>
+${familyRows(loadTernaryFamilies()).join('\n')}
+  <tr><td><code>name C</code></td><td>all</td><td>name of the third component</td></tr>
 </table>
 <p><code>=${NAMESPACE}.CHECKCARD(range)</code> says in one line how a card was read.</p>
 <h2>Errors</h2>

@@ -19,6 +19,7 @@ import JSZip from 'jszip';
 import { beforeAll, describe, expect, test } from 'vitest';
 import * as fns from '../../src/functions/index';
 import { CARD, otherWriterWorkbook, TEMPS, VBA_BYTES } from './fixtures/other-writer';
+import { call } from './support/call';
 
 const root = path.join(__dirname, '..', '..');
 const bin = path.join(root, 'bin', 'mixgap.js');
@@ -66,16 +67,6 @@ function shown(c: Cell | undefined): unknown {
   }
 }
 
-/** Calls a cell function as a host would and gives back its value or the error code it threw. */
-function call(fn: (...a: any[]) => unknown, ...args: unknown[]): unknown {
-  try {
-    return fn(...args);
-  } catch (e) {
-    const code = (e as { code?: string }).code;
-    if (code) return { error: code };
-    throw e;
-  }
-}
 const cellOf = (v: unknown) => (v && typeof v === 'object' && 'code' in (v as object) ? { error: (v as { code: string }).code } : v);
 
 let dir: string;

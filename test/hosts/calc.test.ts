@@ -17,6 +17,7 @@ import path from 'path';
 import ExcelJS from 'exceljs';
 import { beforeAll, describe, expect, test } from 'vitest';
 import * as fns from '../../src/functions/index';
+import { call } from './support/call';
 
 const root = path.join(__dirname, '..', '..');
 const bin = path.join(root, 'bin', 'mixgap.js');
@@ -33,17 +34,6 @@ const card = [['model', 'regular'], ['omega', 21], ['energy', 'kJ/mol'], ['tempe
 const rk = [[21000, 0, 0], [3000, 0, 0]];
 const CARD = 'Inputs!$A$1:$B$5';
 const temps = [500, 600, 700, 2000]; // °C; 2000 °C lies above the critical point (about 990 °C)
-
-/** Calls a cell function as a host would and gives back its value or the error code it threw. */
-function call(fn: (...a: any[]) => unknown, ...args: unknown[]): unknown {
-  try {
-    return fn(...args);
-  } catch (e) {
-    const code = (e as { code?: string }).code;
-    if (code) return { error: code };
-    throw e;
-  }
-}
 
 /** What a computed file holds in a cell: the cached result of a formula, or the plain value. */
 function cached(ws: ExcelJS.Worksheet, address: string): unknown {

@@ -7,9 +7,9 @@
  */
 import { readFileSync } from 'fs';
 import path from 'path';
+import { evaluateIn } from './support/evaluate';
 import { describe, expect, test } from 'vitest';
-import { evaluateFormulas, type ErrorCell } from '../../src/hosts/evaluate';
-import { buildMixgapEngine } from '../../src/hosts/mixgap-engine';
+import type { ErrorCell } from '../../src/hosts/evaluate';
 
 const root = path.join(__dirname, '..', '..');
 const readme = readFileSync(path.join(root, 'README.md'), 'utf8');
@@ -25,14 +25,7 @@ const errors = [...readme.matchAll(/`(=MIXGAP\.[^`]+)` → ([a-zA-Z][^;|\n]*?)(?
   .map((m) => ({ formula: m[1], message: m[2].trim() }))
   .filter((e) => selfContained(e.formula) && !/^(model|regular|Redlich)/.test(e.message));
 
-function evaluate(formulas: string[]) {
-  const engine = buildMixgapEngine(metadata);
-  try {
-    return evaluateFormulas(engine, formulas);
-  } finally {
-    engine.destroy();
-  }
-}
+const evaluate = (formulas: string[]) => evaluateIn(metadata, formulas);
 
 describe('README examples', () => {
   test('the README has examples to check', () => {

@@ -7,10 +7,9 @@
  */
 import { readFileSync } from 'fs';
 import path from 'path';
+import { evaluateIn } from './support/evaluate';
 import { describe, expect, it } from 'vitest';
 import { TERNARY_FAMILIES } from '../../src/core/ternary/families';
-import { evaluateFormulas } from '../../src/hosts/evaluate';
-import { buildMixgapEngine } from '../../src/hosts/mixgap-engine';
 
 const root = path.join(__dirname, '..', '..');
 const readme = readFileSync(path.join(root, 'README.md'), 'utf8');
@@ -18,14 +17,7 @@ const start = readme.indexOf('## Three components');
 const section = readme.slice(start, readme.indexOf('\n## ', start + 5));
 const metadata = JSON.parse(readFileSync(path.join(root, 'dist', 'functions.json'), 'utf8'));
 
-function evaluate(formulas: string[]) {
-  const engine = buildMixgapEngine(metadata);
-  try {
-    return evaluateFormulas(engine, formulas);
-  } finally {
-    engine.destroy();
-  }
-}
+const evaluate = (formulas: string[]) => evaluateIn(metadata, formulas);
 
 /** Whether a value rounds to the number shown: within half a unit of its last printed digit. */
 function agrees(value: unknown, shown: string): boolean {

@@ -10,6 +10,9 @@
  *   TSPLIT       3 (empty rows after the last phase)                4
  *   TPLAIT       1                                                  3
  *   TTRIANGLE    3                                                  3
+ *   FITMODEL     5th argument, 2 to FIT_CARD_ROWS.max; 24 without it 2 (empty rows after the card)
+ *   FITRESID     3rd argument, 1 to FIT_RESID_MAX (>= data rows)       2
+ *   FITCOV       4th argument + 1, from 2 to FIT_COV_MAX + 1             the same
  * Every other function: one cell.
  */
 export type LiteralArg = number | string | boolean | undefined;
@@ -21,6 +24,13 @@ export const GAPTABLE_ROWS = { min: 2, max: 10000 } as const;
 
 /** Most Redlich–Kister terms a fit may ask for. */
 export const MAX_FIT_TERMS = 6;
+
+/** Rows a FITMODEL card may spill: the default when the formula gives none, and the range allowed. */
+export const FIT_CARD_ROWS = { default: 24, min: 2, max: 1000 } as const;
+
+/** Most rows FITRESID spills (data rows), most free parameters FITCOV spills. */
+export const FIT_RESID_MAX = 10000;
+export const FIT_COV_MAX = 30;
 
 /** A count written in the formula as argument `index` (0-based), within [min, max]. */
 function counted(
@@ -49,6 +59,13 @@ const rules: Record<string, (args: LiteralArg[]) => Shape> = {
   TSPLIT: () => ({ rows: 3, cols: 4 }),
   TPLAIT: () => ({ rows: 1, cols: 3 }),
   TTRIANGLE: () => ({ rows: 3, cols: 3 }),
+  FITMODEL: (args) => (args[4] === undefined ? { rows: FIT_CARD_ROWS.default, cols: 2 }
+    : counted(args, 'FITMODEL', 4, 'rows', FIT_CARD_ROWS.min, FIT_CARD_ROWS.max, '=MIXGAP.FITMODEL(A1:C6, E2:I12, , , 30)', 2)),
+  FITRESID: (args) => counted(args, 'FITRESID', 2, 'rows', 1, FIT_RESID_MAX, '=MIXGAP.FITRESID(A1:C6, E2:I12, 11)', 2),
+  FITCOV: (args) => {
+    const shape = counted(args, 'FITCOV', 3, 'free parameters', 1, FIT_COV_MAX, '=MIXGAP.FITCOV(A1:C6, E2:I12, , 2)', 1);
+    return 'error' in shape ? shape : { rows: shape.rows + 1, cols: shape.rows + 1 };
+  },
 };
 
 /** Rows and columns of a function's spilled result, or why it cannot be known from the formula text. */

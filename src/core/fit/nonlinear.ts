@@ -128,9 +128,22 @@ function start(
     evaluator.reset();
     if (Number.isFinite(S(t))) return t;
   }
+  // A candidate counts only when its tracked cloud and critical points are the model's global ones:
+  // a fresh local critical-point solve can settle on a spurious sign change of the curvature
+  // minimum (a Flory–Huggins system with one measured Tc did), and LM cannot start from there.
+  const checked = (t: readonly number[], s: number) => {
+    if (!Number.isFinite(s) || !data.some((m) => m.kind === 'cloud point' || m.kind === 'critical point')) return s;
+    try {
+      evaluator.verify(buildModel(family, Object.fromEntries(Object.entries(base).map(([k, v]) => [k, free.includes(k) ? t[free.indexOf(k)] : v]))));
+      return s;
+    } catch (e) {
+      if (e instanceof MixgapError) return Infinity;
+      throw e;
+    }
+  };
   // one parameter at a time over a short grid, twice round
   evaluator.reset();
-  let best = S(theta);
+  let best = checked(theta, S(theta));
   for (let round = 0; round < 2; round++) {
     for (let j = 0; j < free.length; j++) {
       if (given[j] !== undefined) continue;
@@ -139,7 +152,7 @@ function start(
         const t = theta.map((v, k) => (k === j ? (m === 0 ? 0 : centre + m * units[j]) : v));
         evaluator.reset();
         const s = S(t);
-        if (s < best) { best = s; theta = t; }
+        if (s < best && checked(t, s) < best) { best = s; theta = t; }
       }
     }
   }

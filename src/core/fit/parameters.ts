@@ -48,6 +48,18 @@ export function parameterUnit(name: string, Tref: number): number {
   return 1;
 }
 
+/**
+ * What a parameter's number measures on a card: an energy (omega, L_k: the card's energy unit), an
+ * energy per kelvin (L_k.b, L_k.c), a temperature in kelvin (chi.B, b_ij: always kelvin) or a pure
+ * number. Cards convert the first two with their energy unit; the others are written as they are.
+ */
+export function parameterDimension(name: string): 'energy' | 'energy per K' | 'K' | '1' {
+  if (name === 'omega' || /^L\d+$/.test(name)) return 'energy';
+  if (/^L\d+\.[bc]$/.test(name)) return 'energy per K';
+  if (name === 'chi.B' || name === 'b12' || name === 'b21') return 'K';
+  return '1';
+}
+
 /** The model of `family` with these parameter values (SI units), through the family's card reader. */
 export function buildModel(family: ModelFamily, values: Readonly<Record<string, number>>): BinaryModel {
   const keys = Object.keys(values);

@@ -61,14 +61,14 @@ export function fdStep(theta: readonly number[], units: readonly number[], j: nu
   return relative * Math.max(Math.abs(theta[j]), units[j]);
 }
 
-/** S, or Infinity where the residuals cannot be evaluated. */
-function costOf(problem: LeastSquaresProblem, theta: readonly number[]): { S: number; r?: number[] } {
+/** S, or Infinity where the residuals cannot be evaluated (with the reason, when one was given). */
+function costOf(problem: LeastSquaresProblem, theta: readonly number[]): { S: number; r?: number[]; why?: string } {
   try {
     const r = problem.residuals(theta);
     const S = r.reduce((s, v) => s + v * v, 0);
     return Number.isFinite(S) ? { S, r } : { S: Infinity };
   } catch (e) {
-    if (e instanceof MixgapError) return { S: Infinity };
+    if (e instanceof MixgapError) return { S: Infinity, why: e.message };
     throw e;
   }
 }
@@ -78,13 +78,19 @@ function costOf(problem: LeastSquaresProblem, theta: readonly number[]): { S: nu
  * evaluated.
  * Fails ('convergence') naming the parameter when neither neighbour can.
  */
-export function jacobian(problem: LeastSquaresProblem, theta: readonly number[], r0: readonly number[], central = true): number[][] {
+export function jacobian(
+  problem: LeastSquaresProblem, theta: readonly number[], r0: readonly number[], central = true,
+  edges?: Array<{ name: string; step: number; why?: string }>,
+): number[][] {
   const n = r0.length, p = theta.length;
   const J = Array.from({ length: n }, () => new Array<number>(p).fill(0));
   for (let j = 0; j < p; j++) {
     const h = fdStep(theta, problem.units, j, central ? FD_STEP : FORWARD_STEP);
-    const at = (t: number) => costOf(problem, theta.map((v, k) => (k === j ? v + t : v))).r;
-    const plus = at(h), minus = central || !plus ? at(-h) : undefined;
+    const at = (t: number) => costOf(problem, theta.map((v, k) => (k === j ? v + t : v)));
+    const up = at(h), plus = up.r;
+    const down = central || !plus ? at(-h) : undefined, minus = down?.r;
+    if (central && plus && !minus) edges?.push({ name: problem.names[j], step: -h, why: down?.why });
+    if (central && minus && !plus) edges?.push({ name: problem.names[j], step: h, why: up.why });
     let col: (i: number) => number;
     if (plus && minus) col = (i) => (plus[i] - minus[i]) / (2 * h);
     else if (plus) col = (i) => (plus[i] - r0[i]) / h;
@@ -174,7 +180,15 @@ function worstGradient(names: readonly string[], g: readonly number[], D: readon
 
 /** The Jacobian at the solution and the identifiability check. */
 function finish(problem: LeastSquaresProblem, theta: number[], r: number[], S: number, iterations: number): LeastSquaresSolution {
-  const J = jacobian(problem, theta, r);
+  const edges: Array<{ name: string; step: number; why?: string }> = [];
+  const J = jacobian(problem, theta, r, true, edges);
+  // A minimum within one difference step of where the residuals stop existing is the edge of the
+  // model's reach, not a minimum of S: the data pull it to where a measured gap or critical point
+  // vanishes, and the slopes (and any covariance) there mean nothing.
+  if (edges.length > 0) {
+    const e = edges[0];
+    fail('convergence', `the fit ran into the edge of what the model can describe: moving ${e.name} by ${e.step.toPrecision(3)} from ${theta[problem.names.indexOf(e.name)].toPrecision(8)} loses a measured feature${e.why ? ` (${e.why})` : ''}; the data ask for more than the model gives there: check the measurements, free another parameter or choose another model`);
+  }
   const condition = identifiable(problem.names, J);
   return { theta, r, J, S, iterations, condition };
 }

@@ -166,5 +166,49 @@ ageing.getCell('B21').value = { formula: `INDEX(A${first10}:A${last}, MATCH(B20,
 ageing.getCell('A23').value = 'Caution: an equilibrium estimate from invented data, not a heat-treatment procedure; see the About sheet.';
 ageing.getCell('A23').font = { italic: true };
 
+// --- Fit (FITMODEL and its siblings) ------------------------------------------------------------
+/** Sheet "Fit": invented cloud points of an invented polymer blend -> chi(T) card -> Tc. */
+function addFitSheet(workbook) {
+  const fit = workbook.addWorksheet('Fit');
+  for (const [c, w] of [[1, 16], [2, 14], [3, 8], [5, 13], [6, 9], [7, 9], [8, 4], [9, 8], [10, 12], [11, 4], [13, 16], [14, 14]]) fit.getColumn(c).width = w;
+  fit.getCell('A1').value = 'Cloud points of an invented blend (polyvarene + bexylene, all numbers invented) -> chi(T) -> critical temperature';
+  fit.getCell('A1').font = bold;
+  const start = [
+    ['model', 'flory-huggins'], ['NA', 100], ['NB', 60, 'fixed'], ['chi.A', null, 'fit'], ['chi.B', null, 'fit'],
+    ['temperature', '°C'], ['name A', 'polyvarene'], ['name B', 'bexylene'],
+  ];
+  start.forEach((row, i) => row.forEach((v, j) => { if (v !== null) fit.getCell(3 + i, 1 + j).value = v; }));
+  const data = [
+    ['kind', 'T (°C)', 'phi B', null, 'u (°C)'],
+    ...[[79, 0.15], [118.4, 0.25], [143.1, 0.35], [156.1, 0.45], [161.9, 0.55], [158.9, 0.65], [145.3, 0.75]].map(([T, phi]) => ['cloud point', T, phi, null, 0.5]),
+  ];
+  data.forEach((row, i) => row.forEach((v, j) => { if (v !== null) fit.getCell(3 + i, 5 + j).value = v; }));
+  header(fit.getRow(2));
+  fit.getCell('A2').value = 'start card (fit = free)';
+  fit.getCell('E2').value = 'measurements';
+  fit.getCell('J2').value = 'residual (°C)';
+  fit.getCell('M2').value = 'fitted card';
+  // Spill sizes are written in the formulas (the engine sizes a spill from the formula text).
+  fit.getCell('J3').value = { formula: 'MIXGAP.FITRESID($A$3:$C$10, $E$3:$I$10, 8)' };
+  fit.getCell('M3').value = { formula: 'MIXGAP.FITMODEL($A$3:$C$10, $E$3:$I$10)' };
+  for (let r = 4; r <= 10; r++) fit.getCell(r, 10).numFmt = '0.00';
+  fit.getCell('A13').value = 'summary';
+  fit.getCell('A13').font = bold;
+  fit.getCell('A14').value = { formula: 'MIXGAP.FITSUMMARY($A$3:$C$10, $E$3:$I$10)' };
+  fit.getCell('A16').value = 'critical temperature (°C)';
+  // The card without its u() and r() rows (4th argument FALSE) as params.
+  fit.getCell('B16').value = { formula: 'MIXGAP.TCRIT(MIXGAP.FITMODEL($A$3:$C$10, $E$3:$I$10, , FALSE))' };
+  fit.getCell('B16').numFmt = '0.00';
+  fit.getCell('A17').value = 'critical phi of bexylene';
+  fit.getCell('B17').value = { formula: 'MIXGAP.XCRIT(MIXGAP.FITMODEL($A$3:$C$10, $E$3:$I$10, , FALSE))' };
+  fit.getCell('B17').numFmt = '0.0000';
+  fit.getCell('A19').value = 'covariance of chi.A, chi.B';
+  fit.getCell('A19').font = bold;
+  fit.getCell('A20').value = { formula: 'MIXGAP.FITCOV($A$3:$C$10, $E$3:$I$10, , 2)' };
+  fit.getCell('A24').value = 'Invented data for the demo: no real polymer is described. The u column is the stated uncertainty of each cloud point.';
+  fit.getCell('A24').font = { italic: true };
+}
+
+addFitSheet(wb);
 await wb.xlsx.writeFile(target);
 console.log(`wrote ${path.relative(process.cwd(), target)}`);

@@ -215,6 +215,10 @@ describe('the card and its uncertainty', () => {
 
   it('the fitted card feeds GAPLOW directly (without its u() rows), and FITRESID is the model minus the data', () => {
     const card = fitModel(start, data, undefined, false) as unknown[][];
+    // padded as the embedded engine pads a spill (empty cells) or as a range over blank cells (""):
+    // the card reader skips those rows, so the padded card is the same system
+    const T = data[0][1] as number;
+    expect(gapLow(T, [...card, [null, null], ['', '']])).toBe(gapLow(T, card));
     const resid = fitResid(start, data) as number[][];
     data.forEach((row, i) => {
       const model = row[3] === 'low' ? gapLow(row[1] as number, card) : gapHigh(row[1] as number, card);

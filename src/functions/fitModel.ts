@@ -194,7 +194,7 @@ function absolute(weights: unknown): boolean {
 /** The covariance, or #N/A saying why there is none. */
 function covariance(fit: NonlinearFit): number[][] {
   if (fit.covariance) return fit.covariance;
-  throw new CellFailure('#N/A', `the data determine the ${fit.free.length} fitted parameter${fit.free.length > 1 ? 's' : ''} exactly (${fit.rows.length} residuals, no degree of freedom): no scatter is left to estimate uncertainties from; add measurements, or state each row's uncertainty and use weights "absolute"${' '}(FITMODEL: or FALSE as its 4th argument to leave out the u() and r() rows)`);
+  throw new CellFailure('#N/A', `the data determine the ${fit.free.length} fitted parameter${fit.free.length > 1 ? 's' : ''} exactly (${fit.rows.length} residuals, no degree of freedom): no scatter is left to estimate uncertainties from; add measurements, or state each row's uncertainty and use weights "absolute" (FITMODEL: or FALSE as its 4th argument to leave out the u() and r() rows)`);
 }
 
 /** u in the card's units and the correlation matrix (clamped to [-1, 1] against rounding). */
@@ -202,7 +202,8 @@ function uncertainties(card: StartCard, fit: NonlinearFit): { u: number[]; r: nu
   const C = covariance(fit);
   const s = C.map((row, j) => Math.sqrt(row[j]));
   const u = s.map((v, j) => v / toSI(fit.free[j], card.energy));
-  const r = C.map((row, j) => row.map((c, k) => Math.max(-1, Math.min(1, c / (s[j] * s[k])))));
+  // a parameter with u = 0 (data without any scatter) is correlated with nothing: r = 0
+  const r = C.map((row, j) => row.map((c, k) => (s[j] * s[k] > 0 ? Math.max(-1, Math.min(1, c / (s[j] * s[k]))) : j === k ? 1 : 0)));
   return { u, r };
 }
 

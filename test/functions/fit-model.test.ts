@@ -99,6 +99,24 @@ describe('every family, every kind of measurement, back through FITMODEL', () =>
         return [f.tie(290), f.tie(310), f.tie(330), f.tie(350)];
       },
     },
+    {
+      name: 'NRTL b12, b21 with alpha fixed at 0.25, from boundary points and cloud points',
+      start: [['model', 'nrtl'], ['a12', 0], ['b12', '', 'fit'], ['a21', 0], ['b21', '', 'fit'], ['alpha', 0.25, 'fixed']],
+      truth: { b12: 800, b21: 600 }, scale: { b12: 800, b21: 600 },
+      data: () => {
+        const f = forward(nrtlFamily, { a12: 0, b12: 800, a21: 0, b21: 600, alpha: 0.25 });
+        return [f.boundary(300, 'low'), f.boundary(320, 'high'), f.cloud(0.2), f.cloud(0.6)];
+      },
+    },
+    {
+      name: 'Flory–Huggins chi.A, chi.B (NA = 1, NB = 20 fixed) from a tie-line, boundary points and a critical point (Tc, xc)',
+      start: [['model', 'fh'], ['NA', 1], ['NB', 20], ['chi.A', '', 'fit'], ['chi.B', 150, 'fit']],
+      truth: { 'chi.A': 0.1, 'chi.B': 200 }, scale: { 'chi.A': 1, 'chi.B': 300 },
+      data: () => {
+        const f = forward(floryHugginsFamily, { NA: 1, NB: 20, 'chi.A': 0.1, 'chi.B': 200 });
+        return [f.tie(280), f.boundary(290, 'low'), f.boundary(300, 'high'), f.critical(true)];
+      },
+    },
   ];
   for (const c of cases) {
     it(c.name, () => {

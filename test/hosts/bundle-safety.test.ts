@@ -102,6 +102,7 @@ describe('dist/functions.js', () => {
       FITCRIT: [1000, 0.5], FITNRTL: [300, 0.05, 0.9, 0.3], GAPRESID: [500, 0.1, card, 'low'],
       MASSFRAC: [0.3, 'H2O', 'C6H5OH'], MOLEFRAC: [0.3, 'H2O', 'C6H5OH'], WTPCT: [30, 'H2O', 'C6H5OH'], MOLPCT: [30, 'H2O', 'C6H5OH'],
       MOLARMASS: ['C6H5OH'], PHASEMASSFRAC: [0.3, 0.1, 0.9, 'H2O', 'C6H5OH'], PHASEMASS: [100, 0.3, 0.1, 0.9, 'H2O', 'C6H5OH'],
+      ...Object.fromEntries(['FITMODEL', 'FITSUMMARY', 'FITRESID', 'FITCOV'].map((id) => [id, [[['model', 'rk'], ['L0', '', 'fit'], ['L0.b', '', 'fit']], [['tie-line', 700, 0.1, 0.9], ['boundary', 800, 0.2, 'low'], ['cloud point', 850, 0.3], ['critical point', 900]]]])),
     };
     // the switch works: text evaluated as code fails in this context
     expect(() => vm.runInContext('eval("1 + 1")', context)).toThrow(/Code generation from strings disallowed/);
@@ -122,6 +123,7 @@ describe('dist/functions.js', () => {
     expect(typeof values.get('GAPLOW')).toBe('number');
     expect(values.get('CHECKCARD')).toMatch(/regular solution/);
     expect(Array.isArray(values.get('GAPTABLE'))).toBe(true);
+    expect(values.get('FITSUMMARY')).toMatch(/^redlich-kister: L0 = /);
   });
 });
 

@@ -142,6 +142,22 @@ describe('data that cannot determine the parameters: a named failure, never a nu
   });
 });
 
+describe('starts and ends that are not minima of S', () => {
+  it('a grid start whose critical point is not the model\'s global one is passed over (Flory–Huggins, one measured Tc)', () => {
+    // Flory, Principles of Polymer Chemistry (1953), ch. XIII: chi_c = (1/sqrt(NA) + 1/sqrt(NB))^2 / 2.
+    // Before the check the grid kept chi.B = 535 K, where a fresh local solve found a spurious
+    // sign change near 310 K, and the fit failed there; the fit is good to 1e-10 of its scale: 1e-8.
+    const fit = fitModel(floryHugginsFamily, [{ name: 'NA', value: 1, free: false }, { name: 'NB', value: 100, free: false }, { name: 'chi.A', value: 0, free: false }, { name: 'chi.B', free: true }], [{ kind: 'critical point', Tc: 310 }]);
+    expect(Math.abs(fit.values['chi.B'] / 310 / ((1 + 1 / Math.sqrt(100)) ** 2 / 2) - 1)).toBeLessThan(1e-8);
+  });
+  it('a minimum at the edge where a measured gap vanishes is refused, naming the parameter and the feature', () => {
+    // a boundary at 1000 K needs Tc >= 1000 K, a critical point at 500 K pulls Tc down: S is
+    // smallest where the gap at 1000 K just closes, and its slopes there are not those of a minimum
+    const data: Measurement[] = [{ kind: 'boundary', T: 1000, x: 0.3, side: 'low' }, { kind: 'critical point', Tc: 500 }];
+    expect(reason(() => fitModel(regularFamily, [{ name: 'omega', free: true }], data))).toMatch(/^convergence: the fit ran into the edge of what the model can describe: moving omega by -[\d.]+ .*no miscibility gap at T = 1000 K/);
+  });
+});
+
 describe('weights: each row divided by its stated uncertainty', () => {
   // Weighted least squares (e.g. Bard, Nonlinear Parameter Estimation (1974), ch. 7): scaling every
   // sigma by c leaves the estimate and the relative-weight covariance s^2 (J^T J)^-1 unchanged and

@@ -10,6 +10,7 @@
  *   TSPLIT       3 (empty rows after the last phase)                4
  *   TPLAIT       1                                                  3
  *   TTRIANGLE    3                                                  3
+ *   TBINODAL     3rd argument, a whole number 3 to 10000            6
  * Every other function: one cell.
  */
 export type LiteralArg = number | string | boolean | undefined;
@@ -18,6 +19,9 @@ export type Shape = { rows: number; cols: number } | { error: string };
 
 /** Rows a GAPTABLE may ask for: two (its end temperatures) to a size a chart still reads. */
 export const GAPTABLE_ROWS = { min: 2, max: 10000 } as const;
+
+/** Rows a TBINODAL table may ask for: a branch's two ends and one tie-line between, to GAPTABLE's limit. */
+export const TBINODAL_ROWS = { min: 3, max: 10000 } as const;
 
 /** Most Redlich–Kister terms a fit may ask for. */
 export const MAX_FIT_TERMS = 6;
@@ -49,6 +53,7 @@ const rules: Record<string, (args: LiteralArg[]) => Shape> = {
   TSPLIT: () => ({ rows: 3, cols: 4 }),
   TPLAIT: () => ({ rows: 1, cols: 3 }),
   TTRIANGLE: () => ({ rows: 3, cols: 3 }),
+  TBINODAL: (args) => counted(args, 'TBINODAL', 2, 'rows', TBINODAL_ROWS.min, TBINODAL_ROWS.max, '=MIXGAP.TBINODAL(298.15, B2:C9, 101)', 6),
 };
 
 /** Rows and columns of a function's spilled result, or why it cannot be known from the formula text. */

@@ -578,7 +578,8 @@ export function binodalTable(model: TernaryModel, T: number, rows: number): Arra
   if (rows < need) fail('range', `the binodal curve has ${branches.length} branches: ask for at least ${need} rows (two per branch and one between branches)`);
   const free = rows - (branches.length - 1);
   const L = branches.map((b) => b.s[b.s.length - 1]), total = L.reduce((a, v) => a + v, 0);
-  const counts = branches.map((_, n) => 2 + Math.floor(((free - 2 * branches.length) * L[n]) / total));
+  // (a share within 1e-9 of a whole number is that number: equal branches get equal rows)
+  const counts = branches.map((_, n) => 2 + Math.floor(((free - 2 * branches.length) * L[n]) / total + 1e-9));
   const out: Array<TieEnds | undefined> = [];
   branches.forEach((b, n) => {
     if (n > 0) out.push(undefined);

@@ -179,7 +179,7 @@ async function calcAction(workbook: string, opts: CalcOptions): Promise<void> {
 
 interface DiagramOptions {
   sheet?: string; range?: string; tmin?: number; tmax?: number; temperatureUnit?: string;
-  rows?: number; mark: string[]; title?: string; output?: string; fullRange?: boolean; log?: string;
+  rows?: number; mark: string[]; title?: string; output?: string; fullRange?: boolean; log?: string; at?: number; feed: string[];
 }
 
 /** `mixgap diagram`: OUT.svg and OUT.png of a card, and what they show. */
@@ -200,6 +200,8 @@ async function diagramAction(card: string, opts: DiagramOptions, command: Comman
   const isXlsx = /\.xlsx$/i.test(card);
   if (isXlsx && !opts.range) throw new Error('an .xlsx card needs --range (e.g. --range Card!A1:B8)');
   const source = isXlsx ? await cardFromXlsx(card, metadata, opts.range!, opts.sheet) : cardFromCsv(card, metadata);
+  const triangle = await import(/* webpackChunkName: "diagram" */ './triangle'); // a three-component card: a composition triangle
+  if (triangle.isTernaryGrid(source.grid)) { source.engine.destroy(); return triangle.triangleAction(metadata, source.grid, source.where, opts, diagramBase(card, opts.output), writeAtomically); }
   let marks;
   try {
     marks = evaluateMarks(source.engine, opts.mark);
@@ -268,6 +270,8 @@ export function program(): Command {
     .option('--title <text>', 'title of the picture')
     .option('--full-range', 'composition axis from 0 to 1 (default: around everything drawn, with a margin)')
     .option('--log <component>', 'logarithmic composition axis: B for x (a dilute branch near x = 0), A for 1 - x (near x = 1)')
+    .option('--at <T>', 'a three-component card: the temperature of its triangle (card unit)', finiteNumber)
+    .option('--feed <xB,xC>', 'a three-component card: a feed to mark with its phases, x_B,x_C or LABEL=x_B,x_C (repeatable)', collect, [])
     .option('-o, --output <path>', 'OUT for OUT.svg and OUT.png, or a folder')
     .addHelpText('after', DIAGRAM_HELP)
     .action(diagramAction);

@@ -259,8 +259,7 @@ export async function triangleAction(
   await write(`${base}.svg`, async (tmp) => writeFileSync(tmp, svg));
   await write(`${base}.png`, async (tmp) => writeFileSync(tmp, renderPng(svg)));
   const n = (k: number, what: string) => `${k} ${what}${k === 1 ? '' : 's'}`;
-  process.stdout.write(`mixgap diagram: ${where}\n  ${data.card}\n  at ${data.T} ${data.temperatureUnit}: ${n(data.branches.length, 'binodal branch')}` +
-    `${data.branches.length === 1 ? '' : 'es'}, ${n(data.plaits.length, 'plait point')}, ${n(data.triangles.length, 'three-phase triangle')}, ${n(data.feeds.length, 'feed')}\n` +
+  process.stdout.write(`mixgap diagram: ${where}\n  ${data.card}\n  at ${data.T} ${data.temperatureUnit}: ${data.branches.length} binodal branch${data.branches.length === 1 ? '' : 'es'}, ${n(data.plaits.length, 'plait point')}, ${n(data.triangles.length, 'three-phase triangle')}, ${n(data.feeds.length, 'feed')}\n` +
     `  ${base}.svg\n  ${base}.png\n`);
 }
 

@@ -194,7 +194,7 @@ function edgeGaps(iso: TernaryIsotherm, i: number, j: number): TieEnds[] {
 // The corrector: Newton in (u', u'') on equal potentials and the arclength plane
 
 const loc2 = [new Float64Array(LOCAL_SIZE), new Float64Array(LOCAL_SIZE)];
-const J4 = new Float64Array(16), r4 = new Float64Array(4);
+const J4 = new Float64Array(16), r4 = new Float64Array(4), step4 = new Float64Array(4);
 const uNow = new Float64Array(4), uTry = new Float64Array(4), xNow = new Float64Array(6), xTry = new Float64Array(6);
 
 function fromU(uB: number, uC: number, x: Float64Array, o: number): void {
@@ -253,7 +253,8 @@ function correct(iso: TernaryIsotherm, start: Float64Array, t: Float64Array, xp:
       J4[3 * 4 + 2 * q] = -tA * a * b + tB * b * (a + c) - tC * b * c;
       J4[3 * 4 + 2 * q + 1] = -tA * a * c - tB * b * c + tC * c * (a + b);
     }
-    const st = r4.map((v) => -v);
+    const st = step4;
+    for (let n = 0; n < 4; n++) st[n] = -r4[n];
     if (!solveInPlace(J4, st, 4)) return false;
     let big = 0;
     for (let n = 0; n < 4; n++) big = Math.max(big, Math.abs(st[n]));
@@ -333,6 +334,8 @@ function envelopeSamples(iso: TernaryIsotherm): Context['samples'] {
 }
 
 const sLoc = new Float64Array(LOCAL_SIZE);
+/** The six neighbours (di, dj) of a node of the triangular grid. */
+const NEIGHBOURS = [1, 0, -1, 0, 0, 1, 0, -1, 1, -1, -1, 1];
 /** A grid minimum of g minus the plane this close to 0 (in RT) away from a tie-line's ends is followed by Newton. */
 const NEAR_PLANE = 0.05;
 
@@ -364,8 +367,8 @@ function stable(c: Context, x: Float64Array): boolean {
       const k = node(i, j);
       if (!(D[k] < NEAR_PLANE * RT) || !away(k)) continue;
       let lowest = true;
-      for (const [di, dj] of [[1, 0], [-1, 0], [0, 1], [0, -1], [1, -1], [-1, 1]]) {
-        const ii = i + di, jj = j + dj;
+      for (let m = 0; m < 12; m += 2) {
+        const ii = i + NEIGHBOURS[m], jj = j + NEIGHBOURS[m + 1];
         if (ii < 0 || jj < 0 || ii + jj > GRID) continue;
         if (D[node(ii, jj)] < D[k]) { lowest = false; break; }
       }

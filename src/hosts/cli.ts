@@ -88,6 +88,8 @@ CARD is a parameter card: a .csv file of key,value rows (e.g. "model,regular" an
 or a range of an .xlsx workbook (--range A1:B8 with --sheet NAME, or --range NAME!A1:B8); the
 workbook is evaluated first, so the card and the marks may be formulas.
 Every point comes from the cell functions (GAPTABLE, TCRIT, XCRIT, CRITKIND, CHECKCARD).
+A three-component card (keys such as AB.L0) is drawn as a composition triangle at --at T, with
+TBINODAL, TPLAIT, TTRIANGLE and the feeds of --feed xB,xC split by TSPLIT.
 
 Temperatures (--tmin, --tmax, the axis) are in the card's temperature unit, or in --temperature-unit.
 Default range: from half the lowest critical temperature (in kelvin) to 6 % above the highest.

@@ -1,5 +1,6 @@
 // `npm run demo`: computes the demo workbook (assets/demo.xlsx, an invented scenario) with
-// `mixgap calc` and draws its phase diagram with `mixgap diagram`, both into out/demo/.
+// `mixgap calc` and draws its phase diagram with `mixgap diagram`, both into out/demo/, and the
+// composition triangle of a three-component card (assets/extraction-card.csv, invented).
 // Needs the build (npm ci runs it).
 import { existsSync } from 'fs';
 import { createRequire } from 'module';
@@ -26,8 +27,13 @@ await mixgap('calc', workbook, '-o', out);
 await mixgap('diagram', workbook, '--range', 'Card!A1:B7',
   '--mark', 'grade L=Ageing!B4', '--mark', 'grade H=Ageing!B5',
   '--title', 'Avarite–Bexium (invented alloy for the Mixgap demo)', '-o', out);
+// a three-component card (invented extraction scenario) drawn as a composition triangle at 25 °C
+const extraction = path.relative(process.cwd(), path.join(root, 'assets', 'extraction-card.csv'));
+await mixgap('diagram', extraction, '--at', '25', '--feed', 'feed=0.4,0.1',
+  '--title', 'water – tarnol – quellic acid at 25 °C (invented, for the Mixgap demo)', '-o', out);
 
 console.log(`
 Demo done in ${((Date.now() - started) / 1000).toFixed(1)} s. Invented scenario, invented numbers. Open:
   ${path.join(out, 'demo.computed.xlsx')}   computed workbook (every formula with its value)
-  ${path.join(out, 'demo.diagram.png')}     phase diagram (also .svg)`);
+  ${path.join(out, 'demo.diagram.png')}     phase diagram (also .svg)
+  ${path.join(out, 'extraction-card.diagram.png')}   composition triangle of the extraction card (also .svg)`);

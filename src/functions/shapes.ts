@@ -13,6 +13,7 @@
  *   FITMODEL     5th argument, 2 to FIT_CARD_ROWS.max; 24 without it 2 (empty rows after the card)
  *   FITRESID     3rd argument, 1 to FIT_RESID_MAX (>= data rows)       2
  *   FITCOV       4th argument + 1, from 2 to FIT_COV_MAX + 1             the same
+ *   TBINODAL     3rd argument, a whole number 3 to 10000            6
  * Every other function: one cell.
  */
 export type LiteralArg = number | string | boolean | undefined;
@@ -21,6 +22,9 @@ export type Shape = { rows: number; cols: number } | { error: string };
 
 /** Rows a GAPTABLE may ask for: two (its end temperatures) to a size a chart still reads. */
 export const GAPTABLE_ROWS = { min: 2, max: 10000 } as const;
+
+/** Rows a TBINODAL table may ask for: a branch's two ends and one tie-line between, to GAPTABLE's limit. */
+export const TBINODAL_ROWS = { min: 3, max: 10000 } as const;
 
 /** Most Redlich–Kister terms a fit may ask for. */
 export const MAX_FIT_TERMS = 6;
@@ -66,6 +70,7 @@ const rules: Record<string, (args: LiteralArg[]) => Shape> = {
     const shape = counted(args, 'FITCOV', 3, 'free parameters', 1, FIT_COV_MAX, '=MIXGAP.FITCOV(A1:C6, E2:I12, , 2)', 1);
     return 'error' in shape ? shape : { rows: shape.rows + 1, cols: shape.rows + 1 };
   },
+  TBINODAL: (args) => counted(args, 'TBINODAL', 2, 'rows', TBINODAL_ROWS.min, TBINODAL_ROWS.max, '=MIXGAP.TBINODAL(298.15, B2:C9, 101)', 6),
 };
 
 /** Rows and columns of a function's spilled result, or why it cannot be known from the formula text. */

@@ -10,14 +10,16 @@
 import { expOfLog } from '../core/activity';
 import { molarMass as formulaMass } from '../core/composition';
 import { fail, MixgapError } from '../core/errors';
+import { binodalTable } from '../core/ternary/binodalCurve';
 import { LOCAL_SIZE, perMolecule } from '../core/ternary/model';
 import { plaitPoints } from '../core/ternary/plait';
 import { splitFeed, type TernaryPoint } from '../core/ternary/split';
 import { threePhaseTriangles } from '../core/ternary/threePhase';
 import { selectivity, tieLineAt } from '../core/ternary/tieLine';
-import { asFailure, cell, energyOut, number, ordinal, temperatureIn, type System } from './args';
+import { asFailure, cell, cellOf, energyOut, number, ordinal, temperatureIn, type System } from './args';
 import { gridNumber, isEmpty, numberText, toGrid } from './cells';
 import { CellFailure } from './errors';
+import { TBINODAL_ROWS } from './shapes';
 import { ternarySystem, type TernarySystem } from './ternaryCard';
 
 /** Rows and columns of TSPLIT's table (fixed, so that the formula engine can size it). */
@@ -143,6 +145,30 @@ export function tTriangle(T: number, params: any[][], n?: number): any[][] {
     const found = threePhaseTriangles(sys.model, TK);
     if (found.length < k) fail('none', found.length === 0 ? `no three-phase triangle at T = ${T} ${sys.temperature.name}` : `three-phase triangle ${k} does not exist at T = ${T} ${sys.temperature.name} (there ${found.length === 1 ? 'is 1' : `are ${found.length}`})`);
     return found[k - 1].phases.map(row);
+  });
+}
+
+/**
+ * The binodal curve at T as a chart-ready table of tie-lines: rows x 6, each row the two ends of a
+ * tie-line (x_A', x_B', x_C', x_A'', x_B'', x_C''), rows evenly spaced along the curve from a
+ * binary edge's gap to the plait point (both ends the plait point), another edge or a three-phase
+ * triangle's side; one #N/A row between branches and #N/A rows after the last.
+ * @customfunction
+ * @helpurl https://localhost:3000/help/TBINODAL.html
+ * @param T Temperature (kelvin, or the card's temperature unit).
+ * @param params Ternary parameter card (key/value range).
+ * @param rows Number of rows of the table (3 to 10000); write it as a number in the formula.
+ * @returns rows x 6 table: x_A', x_B', x_C', x_A'', x_B'', x_C'' of each tie-line.
+ */
+export function tBinodal(T: number, params: any[][], rows: number): any[][] {
+  return tcell(params, (sys) => {
+    const TK = tempIn(sys, T);
+    const n = number(rows, 'rows');
+    if (!(Number.isInteger(n) && n >= TBINODAL_ROWS.min && n <= TBINODAL_ROWS.max)) {
+      throw new CellFailure('#NUM!', `rows = ${n}: give a whole number of rows from ${TBINODAL_ROWS.min} to ${TBINODAL_ROWS.max}`);
+    }
+    const na = () => cellOf(new CellFailure('#N/A', 'no tie-line in this row (between branches of the binodal curve, or after the last)'));
+    return binodalTable(sys.model, TK, n).map((r) => (r ? [...row(r[0]), ...row(r[1])] : [na(), na(), na(), na(), na(), na()]));
   });
 }
 

@@ -88,6 +88,8 @@ CARD is a parameter card: a .csv file of key,value rows (e.g. "model,regular" an
 or a range of an .xlsx workbook (--range A1:B8 with --sheet NAME, or --range NAME!A1:B8); the
 workbook is evaluated first, so the card and the marks may be formulas.
 Every point comes from the cell functions (GAPTABLE, TCRIT, XCRIT, CRITKIND, CHECKCARD).
+A three-component card (keys such as AB.L0) is drawn as a composition triangle at --at T, with
+TBINODAL, TPLAIT, TTRIANGLE and the feeds of --feed xB,xC split by TSPLIT.
 
 Temperatures (--tmin, --tmax, the axis) are in the card's temperature unit, or in --temperature-unit.
 Default range: from half the lowest critical temperature (in kelvin) to 6 % above the highest.
@@ -179,7 +181,7 @@ async function calcAction(workbook: string, opts: CalcOptions): Promise<void> {
 
 interface DiagramOptions {
   sheet?: string; range?: string; tmin?: number; tmax?: number; temperatureUnit?: string;
-  rows?: number; mark: string[]; title?: string; output?: string; fullRange?: boolean; log?: string;
+  rows?: number; mark: string[]; title?: string; output?: string; fullRange?: boolean; log?: string; at?: number; feed: string[];
 }
 
 /** `mixgap diagram`: OUT.svg and OUT.png of a card, and what they show. */
@@ -200,6 +202,8 @@ async function diagramAction(card: string, opts: DiagramOptions, command: Comman
   const isXlsx = /\.xlsx$/i.test(card);
   if (isXlsx && !opts.range) throw new Error('an .xlsx card needs --range (e.g. --range Card!A1:B8)');
   const source = isXlsx ? await cardFromXlsx(card, metadata, opts.range!, opts.sheet) : cardFromCsv(card, metadata);
+  const triangle = await import(/* webpackChunkName: "diagram" */ './triangle'); // a three-component card: a composition triangle
+  if (triangle.isTernaryGrid(source.grid)) { source.engine.destroy(); return triangle.triangleAction(metadata, source.grid, source.where, opts, diagramBase(card, opts.output), writeAtomically); }
   let marks;
   try {
     marks = evaluateMarks(source.engine, opts.mark);
@@ -268,6 +272,8 @@ export function program(): Command {
     .option('--title <text>', 'title of the picture')
     .option('--full-range', 'composition axis from 0 to 1 (default: around everything drawn, with a margin)')
     .option('--log <component>', 'logarithmic composition axis: B for x (a dilute branch near x = 0), A for 1 - x (near x = 1)')
+    .option('--at <T>', 'a three-component card: the temperature of its triangle (card unit)', finiteNumber)
+    .option('--feed <xB,xC>', 'a three-component card: a feed to mark with its phases, x_B,x_C or LABEL=x_B,x_C (repeatable)', collect, [])
     .option('-o, --output <path>', 'OUT for OUT.svg and OUT.png, or a folder')
     .addHelpText('after', DIAGRAM_HELP)
     .action(diagramAction);

@@ -125,3 +125,13 @@ export function plaitPoints(model: TernaryModel, T: number): TernaryPoint[] {
   }
   return found.sort((p, q) => p.xC - q.xC || p.xB - q.xB);
 }
+
+/**
+ * The plait point Newton reaches from `start` (as `plaitPoints` refines its grid candidates), kept
+ * only when stable; undefined otherwise. For a caller that already stands near one (the end of a
+ * traced binodal branch).
+ */
+export function plaitPointNear(model: TernaryModel, T: number, start: TernaryPoint): TernaryPoint | undefined {
+  const p = refine(model.at(T), start);
+  return p && onEnvelope(model, T, p) ? p : undefined;
+}

@@ -10,6 +10,7 @@
  *   TSPLIT       3 (empty rows after the last phase)                4
  *   TPLAIT       1                                                  3
  *   TTRIANGLE    3                                                  3
+ *   GAPBAND      3rd argument, a whole number 2 to 10000            7
  * Every other function: one cell.
  */
 export type LiteralArg = number | string | boolean | undefined;
@@ -49,6 +50,7 @@ const rules: Record<string, (args: LiteralArg[]) => Shape> = {
   TSPLIT: () => ({ rows: 3, cols: 4 }),
   TPLAIT: () => ({ rows: 1, cols: 3 }),
   TTRIANGLE: () => ({ rows: 3, cols: 3 }),
+  GAPBAND: (args) => counted(args, 'GAPBAND', 2, 'rows', GAPTABLE_ROWS.min, GAPTABLE_ROWS.max, '=MIXGAP.GAPBAND(300, 1200, 51, B2:D6)', 7),
 };
 
 /** Rows and columns of a function's spilled result, or why it cannot be known from the formula text. */

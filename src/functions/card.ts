@@ -15,6 +15,7 @@
  * ordinary card; with them, its System carries the parameters' covariance in SI units.
  */
 import { MixgapError } from '../core/errors';
+import { buildModel } from '../core/fit/parameters';
 import { orList, owns, type CardValues, type ModelFamily } from '../core/family';
 import type { BinaryModel } from '../core/model';
 import { FAMILIES, familyNamed } from '../core/models';
@@ -296,19 +297,21 @@ function uncertaintyNote(c: CardUncertainty, num: (key: string) => number | unde
 }
 
 /**
- * The card of `sys` with other parameter values (SI units, as in `sys.uncertainty.values`),
- * written back in the card's units and without its u() and r() rows: what a cell function reads to
- * answer for those values.
+ * A card's System with its parameters moved (UNCERTAINTY's evaluations): passed where a card goes,
+ * `system()` (./args.ts) takes it as read, so that no card is written and read again.
  */
-export function cardWith(sys: System, values: Readonly<Record<string, number>>): unknown[][] {
+export class MovedSystem {
+  constructor(readonly system: System) {}
+}
+
+/**
+ * The System of `sys` with other parameter values (SI units, as in `sys.uncertainty.values`; the
+ * others kept), built by the family's own card reader (core/fit/parameters.ts buildModel). A bad
+ * value is the family's MixgapError ('input').
+ */
+export function moved(sys: System, values: Readonly<Record<string, number>>): MovedSystem {
   const c = sys.uncertainty;
   if (!c) throw new CellFailure('#VALUE!', 'the card carries no uncertainties');
-  return [
-    ['model', c.family.name],
-    ['energy', sys.energy.name],
-    ['temperature', sys.temperature.name],
-    ['name A', sys.names.A],
-    ['name B', sys.names.B],
-    ...Object.keys(c.values).map((k) => [k, (values[k] ?? c.values[k]) / c.scale[k]]),
-  ];
+  const { uncertainty: _, ...rest } = sys;
+  return new MovedSystem({ ...rest, model: buildModel(c.family, { ...c.values, ...values }) });
 }

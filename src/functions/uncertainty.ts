@@ -2,8 +2,8 @@
  * Standard uncertainties of results, from a parameter card that carries u() and r() rows
  * (./card.ts): linear propagation of the parameters' covariance through any one-cell binary
  * function (src/core/fit/propagation.ts `propagateOver`). The function itself is called with the
- * card's parameters moved (a card written back by `cardWith`), so every function that reads a
- * card gets its uncertainty without a line of its own here.
+ * card's parameters moved (`moved`, taken by `system()` in place of the card), so every function
+ * that reads a card gets its uncertainty without a line of its own here.
  *
  * Repeating parameters are not supported by the embedded engine (src/hosts/engine.ts), so
  * UNCERTAINTY takes the function's arguments as five optional ones.
@@ -12,7 +12,7 @@ import { MixgapError } from '../core/errors';
 import { evenTemperatures } from '../core/gapTable';
 import { propagateOver } from '../core/fit/propagation';
 import { asFailure, cell, cellOf, number, ordinal, system, temperatureIn, type System } from './args';
-import { cardWith } from './card';
+import { moved } from './card';
 import { isEmpty } from './cells';
 import { CellFailure, type CellErrorCode } from './errors';
 import {
@@ -60,7 +60,8 @@ function failureOf(e: unknown): CellFailure {
   const byCode: Record<string, CellErrorCode> = {
     '#N/A': '#N/A', notAvailable: '#N/A', '#NUM!': '#NUM!', invalidNumber: '#NUM!', '#VALUE!': '#VALUE!', invalidValue: '#VALUE!',
   };
-  if (typeof code === 'string' && byCode[code] && e instanceof Error) return new CellFailure(byCode[code], e.message);
+  // Excel's CustomFunctions.Error carries the code ('#N/A', ...) and the message, and need not be an Error.
+  if (typeof code === 'string' && byCode[code]) return new CellFailure(byCode[code], String((e as { message?: unknown }).message ?? ''));
   return asFailure(e);
 }
 
@@ -81,21 +82,21 @@ function uncertainSystem(params: unknown): System & Required<Pick<System, 'uncer
  * u of `fn(...args)` over the card's covariance, the card at argument `at`; `k` is the band.
  * A result that stops existing or is far from linear within the band is #N/A with the reason.
  */
-function uncertaintyOf(sys: System & Required<Pick<System, 'uncertainty'>>, fn: CellFunction, args: unknown[], at: number, what: string, k = BAND): number {
+function uncertaintyOf(sys: System & Required<Pick<System, 'uncertainty'>>, fn: CellFunction, args: unknown[], at: number, what: string, value: number, k = BAND): number {
   const result = (values: Record<string, number>): number => {
-    const moved = args.slice();
-    moved[at] = cardWith(sys, values);
     let r: unknown;
     try {
-      r = fn(...moved);
+      const withMoved = args.slice();
+      withMoved[at] = moved(sys, values);
+      r = fn(...withMoved);
     } catch (e) {
-      throw new MixgapError('none', failureOf(e).message);
+      throw new MixgapError('none', e instanceof MixgapError ? e.message : failureOf(e).message);
     }
     if (typeof r !== 'number') throw new MixgapError('input', `${what} is not a number, so it has no standard uncertainty`);
     return r;
   };
   try {
-    return propagateOver(sys.uncertainty, result, what, k).sigma;
+    return propagateOver(sys.uncertainty, result, what, k, value).sigma;
   } catch (e) {
     if (e instanceof MixgapError && e.reason === 'range') throw new CellFailure('#N/A', e.message);
     throw e;
@@ -131,12 +132,14 @@ export function uncertainty(name: string, arg1: any[][], arg2?: any[][], arg3?: 
     if (args.length > target.arity) throw new CellFailure('#VALUE!', `${id} takes at most ${target.arity} arguments, ${args.length} were given after its name`);
     if (args.length <= target.params) throw new CellFailure('#VALUE!', `${id} needs its parameter card as argument ${target.params + 1} (after the name): give ${id}'s own arguments in its own order`);
     const sys = uncertainSystem(args[target.params]);
+    let value: unknown;
     try {
-      target.fn(...args); // the function's own failure (no gap at T, bad x, ...) comes first, as it is
+      value = target.fn(...args); // the function's own failure (no gap at T, bad x, ...) comes first, as it is
     } catch (e) {
       throw failureOf(e);
     }
-    return uncertaintyOf(sys, target.fn, args, target.params, id);
+    if (typeof value !== 'number') throw new CellFailure('#VALUE!', `${id} gives no number here, so it has no standard uncertainty`);
+    return uncertaintyOf(sys, target.fn, args, target.params, id, value);
   });
 }
 
@@ -180,7 +183,7 @@ export function gapBand(T1: number, T2: number, rows: number, params: any[][], k
           continue;
         }
         try {
-          const u = uncertaintyOf(sys, fn, [t, params, which], 1, fn === gapLow ? 'the low boundary' : 'the high boundary', Math.max(kk, BAND));
+          const u = uncertaintyOf(sys, fn, [t, params, which], 1, fn === gapLow ? 'the low boundary' : 'the high boundary', x, Math.max(kk, BAND));
           row.push(x, x - kk * u, x + kk * u);
         } catch (e) {
           const f = asFailure(e, sys);

@@ -79,10 +79,10 @@ const MIN_STEP = FORWARD_STEP;
 /**
  * u(r) for r(values), linear propagation over the parameters of `p` (see above); `k` (default 2)
  * is the band, in standard uncertainties, over which r must exist and be nearly linear; `what`
- * names r in messages. Fails 'none' where r stops existing within the band, 'range' where it is
- * too far from linear there.
+ * names r in messages; `known` is r at the parameters when the caller has it already. Fails 'none'
+ * where r stops existing within the band, 'range' where it is too far from linear there.
  */
-export function propagateOver(p: ParameterCovariance, result: (values: Record<string, number>) => number, what = 'the result', k = 2): Uncertainty {
+export function propagateOver(p: ParameterCovariance, result: (values: Record<string, number>) => number, what = 'the result', k = 2, known?: number): Uncertainty {
   const C = p.covariance;
   const n = p.names.length;
   if (!(k > 0)) fail('input', `the band must be a positive number of standard uncertainties (got ${k})`);
@@ -101,7 +101,7 @@ export function propagateOver(p: ParameterCovariance, result: (values: Record<st
       throw e;
     }
   };
-  const value = result(valuesAt(theta));
+  const value = known ?? result(valuesAt(theta));
   const gradient = theta.map((v, j) => {
     const u = Math.sqrt(Math.max(0, C[j][j]));
     if (u === 0) return 0;

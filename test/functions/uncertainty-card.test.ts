@@ -49,6 +49,11 @@ describe('u() and r() rows become the covariance in SI units', () => {
     expect(tCrit(withU)).toBe(tCrit(rk));
   });
 
+  it('a card laid out in two rows (keys, then values) reads its u() and r() too', () => {
+    const c = system([['model', 'omega', 'u(omega)'], ['regular', 20000, 150]]).uncertainty!;
+    expect(c.covariance).toEqual([[150 * 150]]);
+  });
+
   it('CHECKCARD names the uncertainties and correlations', () => {
     const line = checkCard([...rk, ['u(L0)', 0.3], ['u(L1)', 0.2], ['r(L0, L1)', -0.5]]);
     expect(line).toContain('u(L0) = 0.3, u(L1) = 0.2');

@@ -364,6 +364,17 @@ describe('the band of a card with u() rows', () => {
     expect(diagramData(metadata, card, { tmin: 300, tmax: 900, rows: 61 }).band).toEqual([]);
   });
 
+  test('mixgap diagram shades it for a CSV card with u() rows and says so', () => {
+    const dir = mkdtempSync(path.join(os.tmpdir(), 'mixgap-diagram-'));
+    const csv = path.join(dir, 'card.csv');
+    writeFileSync(csv, 'key,value\nmodel,regular\nomega,21\nenergy,kJ/mol\nu(omega),0.3\n');
+    const r = spawnSync(process.execPath, [path.join(root, 'bin', 'mixgap.js'), 'diagram', csv, '-o', path.join(dir, 'pic')], { encoding: 'utf8' });
+    expect(r.stderr).toBe('');
+    expect(r.status).toBe(0);
+    expect(r.stdout).toContain("the binodal's band (±2 standard uncertainties) shaded");
+    expect(readFileSync(path.join(dir, 'pic.svg'), 'utf8')).toContain('±2 standard uncertainties');
+  }, 30_000);
+
   test('the SVG shades it and says so in the legend', async () => {
     const svg = await renderSvg(diagramSpec(data));
     expect(svg).toContain('±2 standard uncertainties');

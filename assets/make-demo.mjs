@@ -210,5 +210,50 @@ function addFitSheet(workbook) {
 }
 
 addFitSheet(wb);
+uncertaintySheet(wb);
+
 await wb.xlsx.writeFile(target);
 console.log(`wrote ${path.relative(process.cwd(), target)}`);
+
+// --- Uncertainty (UNCERTAINTY, GAPBAND) -------------------------------------------------------
+/** The demo card with invented standard uncertainties of L0 and L1, and what they make of the gap. */
+function uncertaintySheet(book) {
+  const sheet = book.addWorksheet('Uncertainty');
+  sheet.getColumn(1).width = 12;
+  sheet.getColumn(2).width = 14;
+  for (const c of [4, 5, 6, 7, 8, 9, 10]) sheet.getColumn(c).width = 15;
+  sheet.getCell('A1').value = 'The demo card with invented standard uncertainties u() and a correlation r(): how far the gap may be off';
+  sheet.getCell('A1').font = bold;
+  const rows = [
+    ['model', 'redlich-kister'], ['L0', 18], ['L1', 2.2], ['energy', 'kJ/mol'], ['temperature', '°C'],
+    ['name A', 'Avarite'], ['name B', 'Bexium'], ['u(L0)', 0.2], ['u(L1)', 0.15], ['r(L0, L1)', -0.5],
+  ];
+  rows.forEach(([key, value], i) => {
+    sheet.getCell(3 + i, 1).value = key;
+    sheet.getCell(3 + i, 2).value = value;
+  });
+  const ucard = 'Uncertainty!$A$3:$B$12';
+  sheet.getCell('D3').value = 'TCRIT (°C)';
+  sheet.getCell('E3').value = { formula: `MIXGAP.TCRIT(${ucard})` };
+  sheet.getCell('D4').value = 'u(TCRIT) (°C)';
+  sheet.getCell('E4').value = { formula: `MIXGAP.UNCERTAINTY("TCRIT", ${ucard})` };
+  for (const c of ['E3', 'E4']) sheet.getCell(c).numFmt = '0.0';
+  ['T (°C)', 'GAPLOW', 'u(GAPLOW)', 'GAPHIGH', 'u(GAPHIGH)'].forEach((h, i) => { sheet.getCell(14, 4 + i).value = h; });
+  header(sheet.getRow(14));
+  [400, 500, 600, 700, 750, 800, 840].forEach((T, i) => {
+    const r = 15 + i;
+    sheet.getCell(r, 4).value = T;
+    sheet.getCell(r, 5).value = { formula: `MIXGAP.GAPLOW(D${r}, ${ucard})` };
+    sheet.getCell(r, 6).value = { formula: `MIXGAP.UNCERTAINTY("GAPLOW", D${r}, ${ucard})` };
+    sheet.getCell(r, 7).value = { formula: `MIXGAP.GAPHIGH(D${r}, ${ucard})` };
+    sheet.getCell(r, 8).value = { formula: `MIXGAP.UNCERTAINTY("GAPHIGH", D${r}, ${ucard})` };
+    for (const c of [5, 6, 7, 8]) sheet.getCell(r, c).numFmt = '0.0000';
+  });
+  sheet.getCell('D22').value = 'Near the critical point the uncertainty is #N/A on purpose: the gap may close within 2 standard uncertainties, and linear propagation would give a misleading number.';
+  ['T (°C)', 'low', 'low - 2u', 'low + 2u', 'high', 'high - 2u', 'high + 2u'].forEach((h, i) => { sheet.getCell(24, 4 + i).value = h; });
+  header(sheet.getRow(24));
+  // One GAPBAND formula fills D25:J55 (31 rows written in the formula, as for GAPTABLE).
+  sheet.getCell('D25').value = { formula: `MIXGAP.GAPBAND(300, 900, 31, ${ucard})` };
+  sheet.getCell('A14').value = 'Caution: the band covers the scatter of the parameters only; see the About sheet.';
+  sheet.getCell('A14').font = { italic: true };
+}

@@ -21,6 +21,7 @@ import path from 'path';
 import JSZip from 'jszip';
 import { calcWorkbook } from '../src/hosts/calc';
 import { tbinodalBench } from './tbinodal';
+import { uncertaintySection } from './uncertainty';
 
 const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)];
 const fmt = (us: number) => (us < 1000 ? `${us.toFixed(2)} µs` : `${(us / 1000).toFixed(2)} ms`);
@@ -71,6 +72,7 @@ if (process.argv[2] === 'memory') memory();
 else if (process.argv[2] === 'startup') startup();
 else if (process.argv[2] === 'workbooks') void workbookSection();
 else if (process.argv[2] === 'sweep') sweepAgainstFloor(); // this part alone: node dist/node/bench.js sweep
+else if (process.argv[2] === 'uncertainty') uncertaintySection(report);
 else main().then(startup).catch((e) => { console.error(e); process.exit(1); });
 
 async function main() {
@@ -91,6 +93,7 @@ for (const [name, model] of models) report(`critical points 1 K to 20000 K (once
 report('GAPLOW cell function, new temperature each call (cache misses)', fmt(perCall((i) => cells.gapLow(500 + ((i * 0.6180339887) % 1) * 400, rk3Params))));
 report('GAPHIGH after GAPLOW of the same row (cache hit)', fmt(perCall(() => cells.gapHigh(600, rk3Params))));
 report('TGAP cell function (critical points cached)', fmt(perCall((i) => cells.tGap(0.05 + ((i * 0.6180339887) % 1) * 0.5, rk3Params), 10, 10)));
+uncertaintySection(report);
 
 // From measurements to parameters: 50 tie-lines of the 3-term system (from the binodal solver), fitted back.
 const tie50 = Array.from({ length: 50 }, (_, i) => 500 + 7.5 * i).map((T) => {

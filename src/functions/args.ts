@@ -6,7 +6,7 @@ import { BoundedCache } from '../core/boundedCache';
 import { formatNumber, MixgapError, type UnitWriter } from '../core/errors';
 import { describeRedlichKister, describeRegular, redlichKister, type RedlichKisterTerm } from '../core/models/redlichKister';
 import { JOULE_PER_MOLE, KELVIN } from '../core/units';
-import { isCard, readCard, unitNote, type System } from './card';
+import { isCard, MovedSystem, readCard, unitNote, type System } from './card';
 import { choice, gridNumber, isEmpty, numberText, toGrid, type CellValue } from './cells';
 import { CellFailure, toHostError, type Cell } from './errors';
 
@@ -108,6 +108,7 @@ export type { System } from './card';
  * the last term are ignored). Bare numbers and ranges use J/mol and kelvin.
  */
 export function system(params: unknown): System {
+  if (params instanceof MovedSystem) return (scope = params.system); // UNCERTAINTY's moved parameters (./card.ts)
   return (scope = systems.get(fingerprint(params), () => readSystem(params)));
 }
 

@@ -3,3 +3,4 @@ export * from './functions';
 export * from './fitting';
 export * from './fitModel';
 export * from './ternary';
+export * from './uncertainty';

@@ -186,7 +186,7 @@ interface DiagramOptions {
 
 /** `mixgap diagram`: OUT.svg and OUT.png of a card, and what they show. */
 async function diagramAction(card: string, opts: DiagramOptions, command: Command): Promise<void> {
-  const [{ writeAtomically }, { cardFromCsv, cardFromXlsx, evaluateMarks }, { diagramData, diagramSpec, renderPng, renderSvg }, { temperatureUnit }] =
+  const [{ writeAtomically }, { cardFromCsv, cardFromXlsx, evaluateMarks }, { BAND_LABEL, diagramData, diagramSpec, renderPng, renderSvg }, { temperatureUnit }] =
     await Promise.all([import(/* webpackChunkName: "calc" */ './calc'), import(/* webpackChunkName: "diagram" */ './card-source'),
       import(/* webpackChunkName: "diagram" */ './diagram'), import(/* webpackChunkName: "diagram" */ '../core/units')]);
   if (opts.temperatureUnit !== undefined) {
@@ -220,7 +220,8 @@ async function diagramAction(card: string, opts: DiagramOptions, command: Comman
   await writeAtomically(`${base}.png`, async (tmp) => writeFileSync(tmp, renderPng(svg)));
   const plural = (n: number, what: string) => `${n} ${what}${n === 1 ? '' : 's'}`;
   process.stdout.write(`mixgap diagram: ${source.where}\n  ${data.card}\n  ${data.tmin} to ${data.tmax} ${data.temperatureUnit}; ` +
-    `${plural(data.critical.length, 'critical point')} shown; ${plural(data.marks.length, 'marked composition')}\n` +
+    `${plural(data.critical.length, 'critical point')} shown; ${plural(data.marks.length, 'marked composition')}` +
+    `${data.band.length > 0 ? `; the binodal's band (${BAND_LABEL}) shaded` : ''}\n` +
     `  ${base}.svg\n  ${base}.png\n`);
 }
 

@@ -2,8 +2,8 @@
  * Phase-diagram pictures: temperature against composition, with the binodal dome, the spinodal,
  * critical points and chosen overall compositions. Every number on the picture comes from the cell
  * functions, evaluated by the embedded engine on a parameter card (MIXGAP.GAPTABLE, TCRIT, XCRIT,
- * CRITKIND, CHECKCARD); this file only lays them out for vega-lite, renders the SVG with vega and
- * the PNG with resvg.
+ * CRITKIND, CHECKCARD; MIXGAP.GAPBAND for the band of a card that carries u() rows); this file only
+ * lays them out for vega-lite, renders the SVG with vega and the PNG with resvg.
  */
 import { createRequire } from 'module';
 import path from 'path';
@@ -61,8 +61,28 @@ export interface DiagramPoint {
   branch: string;
 }
 
+/** One row of the band around one binodal branch: low - k u to low + k u at T. */
+export interface BandPoint {
+  T: number;
+  from: number;
+  to: number;
+  /** One shaded area: gap, stretch of temperatures without a break, side. */
+  branch: string;
+}
+
+/** The band drawn around the binodal of a card with u() rows, in standard uncertainties. */
+export const BAND_K = 2;
+
+/** What the band's legend entry says. */
+export const BAND_LABEL = `±${BAND_K} standard uncertainties`;
+
+/** Most GAPBAND rows per gap: the band is smooth and undefined near a critical point, where rows cost most. */
+const BAND_ROWS = 101;
+
 export interface DiagramData {
   points: DiagramPoint[];
+  /** The band around the binodal (a card with u() rows), else empty. */
+  band: BandPoint[];
   critical: Array<{ x: number; T: number; kind: string }>;
   marks: Array<{ x: number; label: string }>;
   tmin: number;
@@ -163,6 +183,7 @@ export function diagramData(metadata: CustomFunctionsMetadata, grid: CardGrid, o
       ranges.push(c.kind === 'lower' ? [c.T, Math.min(tmax, c.T + fine), 81] : [Math.max(tmin, c.T - fine), c.T, 81]);
     }
     const points: DiagramPoint[] = [];
+    const band: BandPoint[] = [];
     for (let gap = 1; gap <= MAX_GAPS; gap++) {
       const tables = evaluateFormulas(engine, ranges.map(([from, to, n]) => `=MIXGAP.GAPTABLE(${from}, ${to}, ${n}, ${ref}, ${gap})`));
       const merged: ResultCell[][] = [];
@@ -179,6 +200,11 @@ export function diagramData(metadata: CustomFunctionsMetadata, grid: CardGrid, o
       }
       if (found.length === 0) break; // this gap exists nowhere in the range
       points.push(...found);
+      if (sys.uncertainty) {
+        const [table] = evaluateFormulas(engine, [`=MIXGAP.GAPBAND(${tmin}, ${tmax}, ${Math.min(rows, BAND_ROWS)}, ${ref}, ${BAND_K}, ${gap})`]);
+        if (!Array.isArray(table)) throw new Error(`GAPBAND: ${isError(table) ? `${table.error} ${table.message}` : JSON.stringify(table)}`);
+        band.push(...bandPoints(table, gap));
+      }
     }
 
     const shownCritical = critical.filter((c) => c.T >= tmin && c.T <= tmax);
@@ -189,6 +215,7 @@ export function diagramData(metadata: CustomFunctionsMetadata, grid: CardGrid, o
       : { scale: 'linear', component: 'B', domain: options.fullRange ? [0, 1] : linearDomain(xs), title: labels.compositionLabel };
     return {
       points,
+      band,
       critical: shownCritical,
       marks,
       tmin,
@@ -315,6 +342,29 @@ function tablePoints(rows: ResultCell[][], gap: number): DiagramPoint[] {
   return points;
 }
 
+/**
+ * Shaded stretches of the rows of a GAPBAND (T, low, low - k u, low + k u, high, high - k u,
+ * high + k u): a break wherever a band is not defined (#N/A); one area per side.
+ */
+function bandPoints(rows: ResultCell[][], gap: number): BandPoint[] {
+  const out: BandPoint[] = [];
+  for (const [side, col] of [['low', 2], ['high', 5]] as const) {
+    let stretch = 0;
+    let inside = false;
+    for (const row of rows) {
+      const [T, from, to] = [row[0], row[col], row[col + 1]];
+      if (typeof T !== 'number' || typeof from !== 'number' || typeof to !== 'number') {
+        if (inside) stretch++;
+        inside = false;
+        continue;
+      }
+      inside = true;
+      out.push({ T, from, to, branch: `gap ${gap}, part ${stretch + 1}, band ${side}` });
+    }
+  }
+  return out;
+}
+
 const FONT = 'DejaVu Sans';
 
 const round = (v: number, digits = 4) => Number(v.toPrecision(digits));
@@ -412,7 +462,21 @@ export function diagramSpec(d: DiagramData): Record<string, unknown> {
     : { tickCount: 10 };
   const x = { field: 'v', type: 'quantitative', title: axis.title, scale, axis: xAxis };
   const y = { field: 'T', type: 'quantitative', title: tTitle, scale: { domain: [d.tmin, d.tmax], zero: false, nice: false, padding: 0 } };
-  const layers: Record<string, unknown>[] = [
+  const layers: Record<string, unknown>[] = [];
+  if (d.band.length > 0) {
+    // Under the lines: a horizontal area from low - k u to low + k u at each temperature (rows in
+    // order of T; an `order` channel would mean stacking order for an area, not path order).
+    layers.push({
+      data: { values: [...d.band].sort((a, b) => a.T - b.T).map((b) => ({ ...b, v: v(b.from), v2: v(b.to), what: BAND_LABEL })) },
+      mark: { type: 'area', orient: 'horizontal', opacity: 0.22, clip: true },
+      encoding: {
+        x, x2: { field: 'v2' }, y,
+        fill: { field: 'what', type: 'nominal', title: null, scale: { domain: [BAND_LABEL], range: ['#1b4f9c'] } },
+        detail: { field: 'branch' },
+      },
+    });
+  }
+  layers.push(
     {
       data: { values: d.points.map((p) => ({ ...p, v: v(p.x) })) },
       mark: { type: 'line', strokeWidth: 2.2, clip: true },
@@ -424,7 +488,7 @@ export function diagramSpec(d: DiagramData): Record<string, unknown> {
         order: { field: 'T', type: 'quantitative' },
       },
     },
-  ];
+  );
   const critical = d.critical.filter((c) => inside(c.x));
   if (critical.length > 0) {
     const crit = critical.map((c) => ({ ...c, v: v(c.x), label: `${c.kind} critical point: ${round(c.T)} ${d.temperatureUnit}, x = ${round(c.x, 3)}` }));
@@ -446,7 +510,7 @@ export function diagramSpec(d: DiagramData): Record<string, unknown> {
     width: PLOT.width,
     height: PLOT.height,
     background: 'white',
-    config: { font: FONT, axis: { labelFontSize: 12, titleFontSize: 13, grid: true, gridOpacity: 0.35 }, legend: { labelFontSize: 12, orient: 'bottom', direction: 'horizontal' } },
+    config: { font: FONT, axis: { labelFontSize: 12, titleFontSize: 13, grid: true, gridOpacity: 0.35 }, legend: { labelFontSize: 12, labelLimit: 320, orient: 'bottom', direction: 'horizontal' } },
     layer: layers,
   };
 }

@@ -124,6 +124,12 @@ const CASES: Array<[string, unknown[]]> = [
   ['ACTIVITY', [0.3, 700, card, 'Avarite']],
   ['CHECKCARD', [card]],
   ['CHECKCARD', [nrtlCard]],
+  // UNCERTAINTY calls other functions: their errors come back as the runtime's error objects
+  ['UNCERTAINTY', ['TCRIT', [...card, ['u(omega)', 0.2]]]],
+  ['UNCERTAINTY', ['GAPLOW', [[600]], [...card, ['u(omega)', 0.2]]]],
+  ['UNCERTAINTY', ['GAPLOW', [[1100]], [...card, ['u(omega)', 0.2]]]], // above the critical point: its #N/A
+  ['UNCERTAINTY', ['GAPLOW', [[985]], [...card, ['u(omega)', 0.2]]]], // the gap closes within the band: #N/A
+  ['GAPBAND', [300, 1100, 5, [...card, ['u(omega)', 0.2]]]],
 ];
 
 /** A generic call for every function, built from its parameters, so none is left unexercised. */

@@ -342,3 +342,47 @@ describe('labels stay inside the picture', () => {
     });
   }, 30_000);
 });
+
+describe('the band of a card with u() rows', () => {
+  // The diagram test card with invented uncertainties: u(L0) = 0.2 kJ/mol, u(L1) = 0.15 kJ/mol, r = -0.5.
+  const uncertain: CardGrid = [...card, ['u(L0)', 0.2], ['u(L1)', 0.15], ['r(L0, L1)', -0.5]];
+  const data = diagramData(metadata, uncertain, { tmin: 300, tmax: 900, rows: 61 });
+
+  test('the band is the rows of GAPBAND (k = 2) where it is defined, and none for a card without u()', () => {
+    const table = (fns.gapBand(300, 900, 61, uncertain, 2) as unknown[][]);
+    let shaded = 0;
+    for (const [T, , lowFrom, lowTo, , highFrom, highTo] of table) {
+      for (const [side, from, to] of [['low', lowFrom, lowTo], ['high', highFrom, highTo]] as const) {
+        const inBand = data.band.some((b) => b.T === T && b.from === from && b.to === to && b.branch.endsWith(`band ${side}`));
+        expect(inBand, `${side} band at ${T}`).toBe(typeof from === 'number');
+        if (typeof from === 'number') shaded++;
+      }
+    }
+    expect(shaded).toBeGreaterThan(40);
+    // Near the critical point the band is not defined (#N/A), so it stops short of the dome's top.
+    expect(Math.max(...data.band.map((b) => b.T))).toBeLessThan(data.critical[0].T);
+    expect(diagramData(metadata, card, { tmin: 300, tmax: 900, rows: 61 }).band).toEqual([]);
+  });
+
+  test('mixgap diagram shades it for a CSV card with u() rows and says so', () => {
+    const dir = mkdtempSync(path.join(os.tmpdir(), 'mixgap-diagram-'));
+    const csv = path.join(dir, 'card.csv');
+    writeFileSync(csv, 'key,value\nmodel,regular\nomega,21\nenergy,kJ/mol\nu(omega),0.3\n');
+    const r = spawnSync(process.execPath, [path.join(root, 'bin', 'mixgap.js'), 'diagram', csv, '-o', path.join(dir, 'pic')], { encoding: 'utf8' });
+    expect(r.stderr).toBe('');
+    expect(r.status).toBe(0);
+    expect(r.stdout).toContain("the binodal's band (±2 standard uncertainties) shaded");
+    expect(readFileSync(path.join(dir, 'pic.svg'), 'utf8')).toContain('±2 standard uncertainties');
+  }, 30_000);
+
+  test('the SVG shades it and says so in the legend', async () => {
+    const svg = await renderSvg(diagramSpec(data));
+    expect(svg).toContain('±2 standard uncertainties');
+    const plain = await renderSvg(diagramSpec(diagramData(metadata, card, { tmin: 300, tmax: 900, rows: 61 })));
+    expect(plain).not.toContain('standard uncertainties');
+    // one area per side and stretch (vega writes each as one path of role "area mark")
+    const areas = (s: string) => (s.match(/aria-roledescription="area mark"/g) ?? []).length;
+    expect(areas(svg)).toBeGreaterThanOrEqual(2);
+    expect(areas(plain)).toBe(0);
+  }, 30_000);
+});

@@ -110,9 +110,16 @@ function devServer() {
  * - mathjs, tree-shaken to the unit system we use (as in the web bundle): required whole from
  *   node_modules it builds every function it has, about 70 MB at start-up;
  * - HyperFormula and the packages it needs: required from node_modules it is some 230 files to
- *   find and read, a good part of the start-up of `mixgap eval` (measured by `npm run bench`).
+ *   find and read, a good part of the start-up of `mixgap eval` (measured by `npm run bench`);
+ * - mathjs's own dependencies and JSZip with its dependencies (the zip library of `mixgap calc`),
+ *   for the same reason: about 40 files found and read at run time by `mixgap calc` otherwise.
  */
-const BUNDLED = /^(mathjs|hyperformula|chevrotain|regexp-to-ast|tiny-emitter)(\/|$)/;
+const BUNDLED = new RegExp(`^(${[
+  'mathjs', 'decimal.js', 'fraction.js', 'complex.js', 'typed-function', '@babel/runtime', 'javascript-natural-sort', 'escape-latex', 'seedrandom',
+  'hyperformula', 'chevrotain', 'regexp-to-ast', 'tiny-emitter',
+  'jszip', 'pako', 'lie', 'immediate', 'setimmediate', 'readable-stream', 'core-util-is', 'inherits', 'isarray', 'process-nextick-args',
+  'safe-buffer', 'string_decoder', 'util-deprecate',
+].map((name) => name.replace(/[.]/g, '\\.')).join('|')})(/|$)`);
 
 const node = (env, argv) => ({
   ...common(argv),

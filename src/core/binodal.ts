@@ -2,8 +2,8 @@ import { curvatureMap, spinodalRootNear } from './curvature';
 import { fail, kelvin, MixgapError, msg } from './errors';
 import type { Isotherm, Point } from './model';
 import { logRatio, muA, pointAt, splitRatio } from './model';
-import { BRACKET_WIDTH, DILUTE_LIMIT, ENERGY_UNIT_HINT, ESTIMATE, SETTLED, NEAR_CRITICAL_DROP, NEWTON_STEP, SLOPE_STEP, U_LIMIT } from './limits';
-import { cellNewton, signCell, type SignCell } from './roots';
+import { BRACKET_WIDTH, CELL, DILUTE_LIMIT, ENERGY_UNIT_HINT, ESTIMATE, SETTLED, NEAR_CRITICAL_DROP, NEWTON_STEP, SLOPE_STEP, U_LIMIT } from './limits';
+import type { SignCell } from './roots';
 
 /** One miscibility gap at a temperature: the two coexisting compositions and their common tangent. */
 export interface Gap {
@@ -140,11 +140,12 @@ const xyCell = new Float64Array(2);
 
 // State of the final solves below, at module level so that their inner loops allocate nothing.
 let solveIso: Isotherm;
-let solveM = 0;
 let partnerBranch: Branch;
-let partnerEstimate = 0;
-/** The slope m of the last partner solve and d g'/du near its point (NaN: none yet), to step the next estimate to its cell. */
-let partnerM = 0, partnerRate = NaN;
+// Their numbers (the slope m of the current solve, the partner's last point, the slope m of the
+// last partner solve and d g'/du near its point, NaN: none yet, to step the next estimate to its
+// cell) live in a typed array: a module-level `let` holding a double allocates on every write.
+const state = new Float64Array(4);
+const SOLVE_M = 0, PARTNER_ESTIMATE = 1, PARTNER_M = 2, PARTNER_RATE = 3;
 const innerCell: SignCell = { a: 0, b: 0, fa: 0, fb: 0 }, outerCell: SignCell = { a: 0, b: 0, fa: 0, fb: 0 };
 
 /** Scratch for g, g', g'' (Isotherm.derivatives), one per caller so that none overwrites another's. */
@@ -164,7 +165,7 @@ let memoNext = 0;
 function slopeGap(u: number): number {
   const iso = solveIso;
   if (iso === memoIso) {
-    for (let i = 0; i < MEMO; i++) if (memoU[i] === u) return memoD[i] - solveM;
+    for (let i = 0; i < MEMO; i++) if (memoU[i] === u) return memoD[i] - state[SOLVE_M];
   } else {
     memoIso = iso;
     memoU.fill(NaN);
@@ -174,7 +175,7 @@ function slopeGap(u: number): number {
   memoU[memoNext] = u;
   memoD[memoNext] = d;
   memoNext = (memoNext + 1) % MEMO;
-  return d - solveM;
+  return d - state[SOLVE_M];
 }
 
 /** g'(u) - m and its slope d g'/du = x y g''. */
@@ -183,7 +184,41 @@ function slopeGapNewton(u: number, out: Float64Array): number {
   const x = xyCell[0], y = xyCell[1];
   solveIso.derivatives(x, y, derSlope);
   out[0] = x * y * derSlope[2];
-  return derSlope[1] - solveM;
+  return derSlope[1] - state[SOLVE_M];
+}
+
+/** signCell (roots.ts) of slopeGap, its own copy of the rule (see there). */
+function signCellSlope(estimate: number, out: SignCell): SignCell | undefined {
+  let i = Math.floor(estimate / CELL);
+  let fa = slopeGap(i * CELL), fb = slopeGap((i + 1) * CELL);
+  for (let walk = 0; walk < 16; walk++) {
+    if (fa < 0 && fb >= 0) {
+      out.a = i * CELL; out.b = (i + 1) * CELL; out.fa = fa; out.fb = fb;
+      return out;
+    }
+    if (!(fa === fa && fb === fb) || (fa >= 0 && fb < 0)) return undefined;
+    if (fa >= 0) { i--; fb = fa; fa = slopeGap(i * CELL); } else { i++; fa = fb; fb = slopeGap((i + 1) * CELL); }
+  }
+  return undefined;
+}
+
+/** cellNewton (roots.ts) of slopeGapNewton, its own copy of the rule (see there). */
+function cellNewtonSlope(cell: SignCell, out: Float64Array): number | undefined {
+  let lo = cell.a, hi = cell.b;
+  let t = cell.a - (cell.fa * (cell.b - cell.a)) / (cell.fb - cell.fa);
+  if (!(t > lo && t < hi)) t = 0.5 * (lo + hi);
+  for (let iter = 0; iter < 60; iter++) {
+    const f = slopeGapNewton(t, out);
+    if (f === 0) return t;
+    if (f < 0) lo = t; else hi = t;
+    const step = f / out[0];
+    if (Math.abs(step) <= NEWTON_STEP * Math.max(1, Math.abs(t))) return Math.min(Math.max(t - step, lo), hi);
+    let next = t - step;
+    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
+    if (next === t) return t;
+    t = next;
+  }
+  return undefined;
 }
 
 /**
@@ -192,10 +227,10 @@ function slopeGapNewton(u: number, out: Float64Array): number {
  */
 function canonicalSlopePoint(iso: Isotherm, br: Branch, m: number, estimate: number): number | undefined {
   solveIso = iso;
-  solveM = m;
-  const cell = signCell(slopeGap, estimate, innerCell);
+  state[SOLVE_M] = m;
+  const cell = signCellSlope(estimate, innerCell);
   if (!cell || !(cell.a > br.a && cell.b < br.b)) return undefined;
-  return cellNewton(slopeGapNewton, cell, innerSlope);
+  return cellNewtonSlope(cell, innerSlope);
 }
 
 /**
@@ -212,16 +247,50 @@ function tangentGap(u: number, out?: Float64Array): number {
   const c1 = x1 * y1 * derTangent[2];
   // The next partner point is near the last one, moved by (m - m_last) / (d g'/du): one Newton step
   // (the answer does not depend on the estimate, only the walk to its cell does).
-  const step = (m - partnerM) / partnerRate;
-  const v = canonicalSlopePoint(iso, partnerBranch, m, Number.isFinite(step) ? partnerEstimate + step : partnerEstimate);
+  const step = (m - state[PARTNER_M]) / state[PARTNER_RATE];
+  const v = canonicalSlopePoint(iso, partnerBranch, m, Number.isFinite(step) ? state[PARTNER_ESTIMATE] + step : state[PARTNER_ESTIMATE]);
   if (v === undefined) return NaN;
-  partnerEstimate = v;
-  partnerM = m;
-  partnerRate = innerSlope[0];
+  state[PARTNER_ESTIMATE] = v;
+  state[PARTNER_M] = m;
+  state[PARTNER_RATE] = innerSlope[0];
   splitRatio(v, xyCell);
   const x2 = xyCell[0], y2 = xyCell[1];
   if (out) out[0] = c1 * (x2 - x1);
   return mu1 - (iso.g(x2, y2) - x2 * m);
+}
+
+/** signCell (roots.ts) of tangentGap, its own copy of the rule (see there). */
+function signCellTangent(estimate: number, out: SignCell): SignCell | undefined {
+  let i = Math.floor(estimate / CELL);
+  let fa = tangentGap(i * CELL), fb = tangentGap((i + 1) * CELL);
+  for (let walk = 0; walk < 16; walk++) {
+    if (fa < 0 && fb >= 0) {
+      out.a = i * CELL; out.b = (i + 1) * CELL; out.fa = fa; out.fb = fb;
+      return out;
+    }
+    if (!(fa === fa && fb === fb) || (fa >= 0 && fb < 0)) return undefined;
+    if (fa >= 0) { i--; fb = fa; fa = tangentGap(i * CELL); } else { i++; fa = fb; fb = tangentGap((i + 1) * CELL); }
+  }
+  return undefined;
+}
+
+/** cellNewton (roots.ts) of tangentGap, its own copy of the rule (see there). */
+function cellNewtonTangent(cell: SignCell, out: Float64Array): number | undefined {
+  let lo = cell.a, hi = cell.b;
+  let t = cell.a - (cell.fa * (cell.b - cell.a)) / (cell.fb - cell.fa);
+  if (!(t > lo && t < hi)) t = 0.5 * (lo + hi);
+  for (let iter = 0; iter < 60; iter++) {
+    const f = tangentGap(t, out);
+    if (f === 0) return t;
+    if (f < 0) lo = t; else hi = t;
+    const step = f / out[0];
+    if (Math.abs(step) <= NEWTON_STEP * Math.max(1, Math.abs(t))) return Math.min(Math.max(t - step, lo), hi);
+    let next = t - step;
+    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
+    if (next === t) return t;
+    t = next;
+  }
+  return undefined;
 }
 
 /**
@@ -236,16 +305,16 @@ export function canonicalGap(iso: Isotherm, j: Branch, k: Branch, u1: number, u2
   if (!(Math.abs(u1) < U_LIMIT - 1 && Math.abs(u2) < U_LIMIT - 1)) return undefined;
   solveIso = iso;
   partnerBranch = k;
-  partnerEstimate = u2;
-  partnerRate = NaN;
-  const cell = signCell(tangentGap, u1, outerCell);
+  state[PARTNER_ESTIMATE] = u2;
+  state[PARTNER_RATE] = NaN;
+  const cell = signCellTangent(u1, outerCell);
   if (!cell || !(cell.a > j.a && cell.b < j.b)) return undefined;
-  const root = cellNewton(tangentGap, cell, outerSlope);
+  const root = cellNewtonTangent(cell, outerSlope);
   if (root === undefined) return undefined;
   const low = pointAt(root);
   const slope = iso.dg(low.x, low.y);
-  const step = (slope - partnerM) / partnerRate;
-  const v = canonicalSlopePoint(iso, k, slope, Number.isFinite(step) ? partnerEstimate + step : u2);
+  const step = (slope - state[PARTNER_M]) / state[PARTNER_RATE];
+  const v = canonicalSlopePoint(iso, k, slope, Number.isFinite(step) ? state[PARTNER_ESTIMATE] + step : u2);
   if (v === undefined) return undefined;
   return { low, high: pointAt(v), slope };
 }

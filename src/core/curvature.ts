@@ -1,8 +1,8 @@
 import { fail, kelvin, msg } from './errors';
 import type { Isotherm, Point } from './model';
 import { pointAt, splitRatio } from './model';
-import { CURVATURE_RANGES as RANGES, DILUTE_LIMIT, ENERGY_UNIT_HINT } from './limits';
-import { brentMin, brentRoot, cellNewton, signCell, type SignCell } from './roots';
+import { CELL, CURVATURE_RANGES as RANGES, DILUTE_LIMIT, ENERGY_UNIT_HINT, NEWTON_STEP } from './limits';
+import { brentMin, brentRoot, type SignCell } from './roots';
 
 /**
  * Scaled curvature q(u) = x y g''(x) / (R T) as a function of u = ln(x / y).
@@ -176,6 +176,40 @@ function signedQNewton(t: number, out: Float64Array): number {
   return rootSign * ((x * y * d2) / iso.RT);
 }
 
+/** signCell (roots.ts) of signedQ, its own copy of the rule (see there). */
+function signCellQ(estimate: number, out: SignCell): SignCell | undefined {
+  let i = Math.floor(estimate / CELL);
+  let fa = signedQ(i * CELL), fb = signedQ((i + 1) * CELL);
+  for (let walk = 0; walk < 16; walk++) {
+    if (fa < 0 && fb >= 0) {
+      out.a = i * CELL; out.b = (i + 1) * CELL; out.fa = fa; out.fb = fb;
+      return out;
+    }
+    if (!(fa === fa && fb === fb) || (fa >= 0 && fb < 0)) return undefined;
+    if (fa >= 0) { i--; fb = fa; fa = signedQ(i * CELL); } else { i++; fa = fb; fb = signedQ((i + 1) * CELL); }
+  }
+  return undefined;
+}
+
+/** cellNewton (roots.ts) of signedQNewton, its own copy of the rule (see there). */
+function cellNewtonQ(cell: SignCell, out: Float64Array): number | undefined {
+  let lo = cell.a, hi = cell.b;
+  let t = cell.a - (cell.fa * (cell.b - cell.a)) / (cell.fb - cell.fa);
+  if (!(t > lo && t < hi)) t = 0.5 * (lo + hi);
+  for (let iter = 0; iter < 60; iter++) {
+    const f = signedQNewton(t, out);
+    if (f === 0) return t;
+    if (f < 0) lo = t; else hi = t;
+    const step = f / out[0];
+    if (Math.abs(step) <= NEWTON_STEP * Math.max(1, Math.abs(t))) return Math.min(Math.max(t - step, lo), hi);
+    let next = t - step;
+    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
+    if (next === t) return t;
+    t = next;
+  }
+  return undefined;
+}
+
 /**
  * The root of q near `estimate` where sign * q rises through zero, by Newton's method in its sign
  * cell (roots.ts): the result depends on the cell alone, not on the estimate.
@@ -183,8 +217,8 @@ function signedQNewton(t: number, out: Float64Array): number {
 function canonicalRoot(iso: Isotherm, estimate: number, sign: 1 | -1): number | undefined {
   rootIso = iso;
   rootSign = sign;
-  const cell = signCell(signedQ, estimate, rootCell);
-  return cell && cellNewton(signedQNewton, cell, slopeRoot);
+  const cell = signCellQ(estimate, rootCell);
+  return cell && cellNewtonQ(cell, slopeRoot);
 }
 
 /** The sampling grid curvatureMap chooses at this temperature (q > 0 at both ends), remembered for the last isotherm asked. */
@@ -202,6 +236,8 @@ function samplingGrid(iso: Isotherm): Grid | undefined {
 }
 let gridIso: Isotherm | undefined;
 let gridChosen: Grid | undefined;
+/** The grid cells of spinodalRootNear's last two estimates (of any grid: checked before use). */
+const lastCells = new Int32Array(2);
 
 /**
  * The spinodal point that curvatureMap would give for a root of q near `estimate`, without
@@ -216,11 +252,21 @@ export function spinodalRootNear(iso: Isotherm, estimate: number): number | unde
   const { u, x, y } = grid;
   const n = u.length;
   if (!(estimate > u[0] && estimate < u[n - 1])) return undefined;
-  let lo = 0, hi = n - 1; // u[lo] < estimate < u[hi]
-  while (hi - lo > 1) {
-    const mid = (lo + hi) >> 1;
-    if (u[mid] < estimate) lo = mid; else hi = mid;
+  // the grid cell holding the estimate (u[lo] < estimate <= u[hi]): usually one of the last two
+  // calls' (a sweep asks for its two spinodal points in turn, each moving little)
+  let lo = lastCells[0], hi = lo + 1;
+  if (!(hi < n && u[lo] < estimate && estimate <= u[hi])) {
+    lo = lastCells[1]; hi = lo + 1;
+    if (!(hi < n && u[lo] < estimate && estimate <= u[hi])) {
+      lo = 0; hi = n - 1;
+      while (hi - lo > 1) {
+        const mid = (lo + hi) >> 1;
+        if (u[mid] < estimate) lo = mid; else hi = mid;
+      }
+    }
   }
+  lastCells[1] = lastCells[0];
+  lastCells[0] = lo;
   const qa = scaledCurvature(iso, x[lo], y[lo]), qb = scaledCurvature(iso, x[hi], y[hi]);
   if (qa > 0 === qb > 0) return undefined;
   return canonicalRoot(iso, estimate, qa > 0 ? -1 : 1) ?? spinodalRoot(iso, u[lo], u[hi], qa, qb);

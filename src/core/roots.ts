@@ -1,5 +1,4 @@
 /** Small root finders and minimisers over one variable, shared by the solvers. */
-import { CELL, NEWTON_STEP } from './limits';
 
 /**
  * Brent's method (zeroin) for f(t) = 0 on [a, b] with f(a), f(b) of opposite signs (or one zero).
@@ -78,55 +77,31 @@ export function brentMin(f: (t: number) => number, a: number, b: number, tol = 1
   return { t: x, f: fx };
 }
 
-/** A cell [a, b] of the CELL grid with f(a) < 0 <= f(b), and those values. */
+/**
+ * A cell [a, b] = [i CELL, (i + 1) CELL] of the CELL grid with f(a) < 0 <= f(b), and those values:
+ * where a canonical final solve ends. The rule, which every copy follows operation for operation:
+ *
+ * signCell<F>(estimate, out): the cell in which F (increasing up to rounding) changes sign, walked
+ * to from the cell of an estimate. The signs at cell ends are computed from the ends alone, so
+ * the cell is the same from any estimate close enough to the root; undefined if the walk does not
+ * end within 16 cells (an estimate too far off) or F is not a number or not increasing there. The
+ * cell is written into `out` (no allocation).
+ *
+ * cellNewton<F>(cell, out): Newton's method for F = 0 inside a sign cell, started at the secant
+ * point of its ends and kept inside it (bisection when a step leaves it): the result depends on
+ * the cell alone. F returns its value and writes its slope into out[0]. From the secant point of
+ * a 1e-6 cell the error is of order 1e-12, so one step usually ends it; after a step below
+ * NEWTON_STEP the error is below 1e-20.
+ *
+ * Each function solved this way (binodal.ts: g' = m and the common tangent; curvature.ts: q = 0)
+ * has its own copy of the two beside it, calling it directly: V8 then inlines the function into
+ * the loop, while one shared copy called with three functions inlined none of them and boxed every
+ * number passed (a sweep of a gap table took about 7 % longer). Change all copies together;
+ * test/core/canonical.test.ts and the fixed-results record check their bits.
+ */
 export interface SignCell {
   a: number;
   b: number;
   fa: number;
   fb: number;
-}
-
-/**
- * The cell [i CELL, (i + 1) CELL] in which f (increasing up to rounding) changes sign,
- * f(a) < 0 <= f(b), walked to from the cell of an estimate. The signs at cell ends are computed
- * from the ends alone, so the cell is the same from any estimate close enough to the root;
- * undefined if the walk does not end within 16 cells (an estimate too far off) or f is not a
- * number or not increasing there. The cell is written into `out` (no allocation).
- */
-export function signCell(f: (t: number) => number, estimate: number, out: SignCell): SignCell | undefined {
-  let i = Math.floor(estimate / CELL);
-  let fa = f(i * CELL), fb = f((i + 1) * CELL);
-  for (let walk = 0; walk < 16; walk++) {
-    if (fa < 0 && fb >= 0) {
-      out.a = i * CELL; out.b = (i + 1) * CELL; out.fa = fa; out.fb = fb;
-      return out;
-    }
-    if (!(fa === fa && fb === fb) || (fa >= 0 && fb < 0)) return undefined;
-    if (fa >= 0) { i--; fb = fa; fa = f(i * CELL); } else { i++; fa = fb; fb = f((i + 1) * CELL); }
-  }
-  return undefined;
-}
-
-/**
- * Newton's method for f = 0 inside a sign cell, started at the secant point of its ends and kept
- * inside it (bisection when a step leaves it): the result depends on the cell alone. `fdf`
- * returns f and writes f' into out[0]. From the secant point of a 1e-6 cell the error is of order
- * 1e-12, so one step usually ends it; after a step below 1e-12 the error is below 1e-20.
- */
-export function cellNewton(fdf: (t: number, out: Float64Array) => number, cell: SignCell, out: Float64Array): number | undefined {
-  let lo = cell.a, hi = cell.b;
-  let t = cell.a - (cell.fa * (cell.b - cell.a)) / (cell.fb - cell.fa);
-  if (!(t > lo && t < hi)) t = 0.5 * (lo + hi);
-  for (let iter = 0; iter < 60; iter++) {
-    const f = fdf(t, out);
-    if (f === 0) return t;
-    if (f < 0) lo = t; else hi = t;
-    const step = f / out[0];
-    if (Math.abs(step) <= NEWTON_STEP * Math.max(1, Math.abs(t))) return Math.min(Math.max(t - step, lo), hi);
-    let next = t - step;
-    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-    if (next === t) return t;
-    t = next;
-  }
-  return undefined;
 }

@@ -109,11 +109,12 @@ export function fileError(code: string): { error: string } {
  * such as `[2]!`); the engine knows them as typed (`SEQUENCE`, `MIXGAP.GAPLOW`).
  */
 export function engineFormula(text: string): string {
-  const body = text.replace(/^\s*=/, '')
-    .replace(new RegExp(`(?:\\[\\d+\\]!)?_xldudf_${NAMESPACE}[._]`, 'gi'), `${NAMESPACE}.`)
-    .replace(/_xl(?:fn|ws|udf)\./gi, '');
+  let body = text.replace(/^\s*=/, '');
+  // (tested first: most formulas have no prefix, and a workbook can hold a hundred thousand)
+  if (/_xl/i.test(body)) body = body.replace(ADD_IN_PREFIX, `${NAMESPACE}.`).replace(/_xl(?:fn|ws|udf)\./gi, '');
   return lowerExponents(`=${body}`);
 }
+const ADD_IN_PREFIX = new RegExp(`(?:\\[\\d+\\]!)?_xldudf_${NAMESPACE}[._]`, 'gi');
 
 /** Days since 1899-12-30 (or 1904-01-01): the number a spreadsheet stores for a date. */
 function serialOf(iso: string, date1904: boolean): number | undefined {

@@ -100,10 +100,12 @@ export const redlichKisterFamily: ModelFamily = {
 };
 
 function redlichKisterAt(terms: readonly RedlichKisterTerm[], T: number): Isotherm {
-  // A plain array (not a Float64Array): one isotherm per row of a sweep, and a typed array costs far more to allocate.
-  const L: number[] = new Array(terms.length).fill(0);
+  // A plain array (not a Float64Array): one isotherm per row of a sweep, and a typed array costs
+  // far more to allocate; built by push, so that it holds doubles from the start (an array filled
+  // with 0 first holds small integers and is copied when the first double is written).
+  const L: number[] = [];
   const lnT = Math.log(T);
-  for (let k = 0; k < terms.length; k++) L[k] = terms[k].a + terms[k].b * T + terms[k].c * T * lnT;
+  for (let k = 0; k < terms.length; k++) L.push(terms[k].a + terms[k].b * T + terms[k].c * T * lnT);
   return new RedlichKisterIsotherm(L, T);
 }
 

@@ -22,7 +22,7 @@ import { phaseMap, type Gap, type PhaseMap } from '../binodal';
 import { T_SEARCH_MAX, T_SEARCH_MIN } from '../constants';
 import { criticalPoints } from '../critical';
 import { refineExtremum } from '../curvature';
-import { fail, kelvin, msg } from '../errors';
+import { fail, kelvin, MixgapError, msg } from '../errors';
 import { gapTemperature } from '../gapTemperature';
 import type { BinaryModel } from '../model';
 import { logRatio, pointAt } from '../model';
@@ -249,6 +249,23 @@ function cloudTemperature(model: BinaryModel, x0: number, Tmeasured: number, tra
  * relative 1e-13.
  */
 function criticalNear(model: BinaryModel, Tc: number, xc: number | undefined, track: Track): { T: number; x: number } {
+  try {
+    return localCritical(model, Tc, xc, track);
+  } catch (e) {
+    if (!(e instanceof MixgapError)) throw e;
+  }
+  // The local bracket failed (the model's critical point lies far from the last one, or the
+  // curvature minimum followed from u = 0 sits at a dilute end, as for a long polymer): take the
+  // global search's critical point nearest to the measured one and solve locally from there.
+  const all = criticalPoints(model);
+  if (all.length === 0) fail('none', msg`the model has no critical point (wanted near ${kelvin(Tc)})`);
+  const distance = (c: { T: number; x: number }) => Math.abs(Math.log(c.T / Tc)) + (xc === undefined ? 0 : Math.abs(c.x - xc));
+  const nearest = all.reduce((best, c) => (distance(c) < distance(best) ? c : best));
+  return localCritical(model, Tc, xc, { ...track, T: nearest.T, u: logRatio(nearest.x) }, track);
+}
+
+/** criticalNear from the tracked (or measured) point only; `out` receives the new track. */
+function localCritical(model: BinaryModel, Tc: number, xc: number | undefined, track: Track, out: Track = track): { T: number; x: number } {
   let u = track.u ?? logRatio(xc ?? 0.5);
   const depth = (T: number) => {
     const m = refineExtremum(model.at(T), u - 0.5, u + 0.5, 1, 10, 1e-14);
@@ -273,7 +290,7 @@ function criticalNear(model: BinaryModel, Tc: number, xc: number | undefined, tr
   const T = brentRoot(depth, lo, hi, qLo, qHi, 1e-13 * hi);
   if (Number.isNaN(T)) fail('convergence', msg`the critical point near ${kelvin(Tc)} could not be bracketed`);
   depth(T);
-  track.T = T;
-  track.u = u;
+  out.T = T;
+  out.u = u;
   return { T, x: pointAt(u).x };
 }

@@ -2,10 +2,10 @@
  * Fits to measured gap boundaries of two real liquid pairs, compared with their published critical
  * points (Redlich–Kister through the linear tie-line fit, NRTL through the general fit), and the
  * Flory–Huggins chi(T) of a polymer solution from the critical points of three fractions, compared
- * with the authors' own analysis. A Redlich–Kister model is a mean-field description: its dome closes as (Tc - T)^(1/2)
- * while real coexistence curves close as (Tc - T)^0.33, flatter at the top, so a model fitted to
- * boundaries below Tc places its critical point within a few kelvin of the measured one, not
- * exactly on it. The tolerances below say how many.
+ * with the authors' own analysis. These models are mean-field descriptions: their dome closes as
+ * (Tc - T)^(1/2) while real coexistence curves close as (Tc - T)^0.33, flatter at the top, so a
+ * model fitted to boundaries below Tc places its critical point within a few kelvin of the
+ * measured one, not exactly on it. The tolerances below say how many.
  */
 import { describe, expect, it } from 'vitest';
 import { moleFraction, molarMass } from '../../../src/core/composition';

@@ -1,15 +1,17 @@
 /**
- * Weighted linear least squares for the fits, with the matrix algebra done by mathjs.
+ * Weighted linear least squares for the fits, with the matrix algebra done by mathjs (the
+ * eigenvalues by ./symmetricEigen.ts).
  *
  * The rows arrive already weighted (each equation scaled so that its residual reads as a
  * composition error). Columns are equilibrated (scaled to unit length) before the normal matrix
  * N = A^T A is formed; the condition number of the equilibrated A, sqrt(lambda_max/lambda_min)
  * of N, decides whether the data determine the coefficients at all.
  */
-import { create, eigsDependencies, invDependencies, lusolveDependencies } from 'mathjs';
+import { create, invDependencies, lusolveDependencies } from 'mathjs';
 import { fail } from '../errors';
+import { symmetricEigen } from './symmetricEigen';
 
-const math = create({ eigsDependencies, invDependencies, lusolveDependencies });
+const math = create({ invDependencies, lusolveDependencies });
 
 /**
  * Above this condition number of the equilibrated design matrix the fit is refused: the normal
@@ -59,7 +61,7 @@ export function leastSquares(A: number[][], r: number[], what: string, advice: s
   }
   for (let j = 0; j < p; j++) for (let k = 0; k < j; k++) N[k][j] = N[j][k];
 
-  const lambdas = (math.eigs(N).values as unknown as number[]).map(Number);
+  const lambdas = symmetricEigen(N).values;
   const lmin = Math.min(...lambdas), lmax = Math.max(...lambdas);
   const condition = lmin > 0 ? Math.sqrt(lmax / lmin) : Infinity;
   if (!(condition <= MAX_CONDITION)) {

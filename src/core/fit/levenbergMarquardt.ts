@@ -17,17 +17,31 @@
  * what the iteration needs (Press et al., Numerical Recipes, 3rd ed. (2007), sec. 5.7).
  *
  * At the solution the columns of J are scaled to unit length and the condition number of the
- * scaled J (sqrt of the eigenvalue ratio of its normal matrix, mathjs eigs) decides whether the data
+ * scaled J (sqrt of the eigenvalue ratio of its normal matrix, ./symmetricEigen.ts) decides whether the data
  * determine the parameters; the eigenvector of the smallest eigenvalue names those that they cannot
  * tell apart.
  */
-import { create, eigsDependencies, invDependencies, lusolveDependencies } from 'mathjs';
+import { create, invDependencies } from 'mathjs';
 import { fail, MixgapError } from '../errors';
+import { solveInPlace } from '../ternary/linear';
 import { MAX_CONDITION } from './leastSquares';
+import { symmetricEigen } from './symmetricEigen';
 
-// absTol 0: mathjs's default (1e-15) takes any number below it for zero, a right-hand side too,
-// and the normal equations of parameters in J/mol or of a nearly perfect fit are that small.
-const math = create({ eigsDependencies, invDependencies, lusolveDependencies }, { absTol: 0 });
+// absTol 0: mathjs's default (1e-15) takes any number below it for zero, and the normal equations
+// of parameters in J/mol or of a nearly perfect fit are that small.
+const math = create({ invDependencies }, { absTol: 0 });
+
+/**
+ * Solves the small system M z = b (Gaussian elimination with partial pivoting, ../ternary/linear.ts;
+ * a tenth of the time of mathjs's lusolve for p = 3, and it is solved once per trial step);
+ * undefined when M is singular.
+ */
+function solve(M: readonly number[][], b: readonly number[]): number[] | undefined {
+  const n = b.length;
+  const A = new Float64Array(n * n), z = Float64Array.from(b);
+  M.forEach((row, i) => row.forEach((v, j) => { A[i * n + j] = v; }));
+  return solveInPlace(A, z, n) ? Array.from(z) : undefined;
+}
 
 export interface LeastSquaresProblem {
   /** Parameter names, for messages. */
@@ -124,12 +138,12 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: readonl
     const gs = g.map((v, j) => -v / d[j]);
     while (lambda <= 1e16) {
       const M = As.map((row, j) => row.map((v, k) => (j === k ? v + lambda : v)));
-      try {
-        delta = (math.lusolve(M, gs) as number[][]).map((row, j) => row[0] / d[j]);
-      } catch {
+      const z = solve(M, gs);
+      if (!z) {
         lambda *= 4;
         continue;
       }
+      delta = z.map((v, j) => v / d[j]);
       const trial = theta.map((v, j) => v + delta[j]);
       const next = costOf(problem, trial);
       if (next.r && next.S < S) {
@@ -203,12 +217,9 @@ function gaussNewtonStep(J: number[][], r: readonly number[]): number[] | undefi
   const { A, g } = normal(J, r);
   const d = A.map((row, j) => Math.sqrt(row[j]));
   if (!d.every((v) => v > 0 && Number.isFinite(v))) return undefined;
-  try {
-    const delta = (math.lusolve(A.map((row, j) => row.map((v, k) => v / (d[j] * d[k]))), g.map((v, j) => -v / d[j])) as number[][]).map((row, j) => row[0] / d[j]);
-    return delta.every(Number.isFinite) ? delta : undefined;
-  } catch {
-    return undefined;
-  }
+  const z = solve(A.map((row, j) => row.map((v, k) => v / (d[j] * d[k]))), g.map((v, j) => -v / d[j]));
+  const delta = z?.map((v, j) => v / d[j]);
+  return delta && delta.every(Number.isFinite) ? delta : undefined;
 }
 
 /**
@@ -227,12 +238,11 @@ export function identifiable(names: readonly string[], J: number[][]): number {
   const scaled = J.map((row) => row.map((v, j) => v / s[j]));
   const { A } = normal(scaled, new Array<number>(J.length).fill(0));
   if (p === 1) return 1;
-  const { values, eigenvectors } = math.eigs(A) as unknown as { values: number[]; eigenvectors: Array<{ value: number; vector: number[] }> };
-  const lambdas = values.map(Number);
+  const { values: lambdas, vectors } = symmetricEigen(A);
   const lmin = Math.min(...lambdas), lmax = Math.max(...lambdas);
   const condition = lmin > 0 ? Math.sqrt(lmax / lmin) : Infinity;
   if (!(condition <= MAX_CONDITION)) {
-    const v = eigenvectors.reduce((a, b) => (Number(b.value) < Number(a.value) ? b : a)).vector.map(Number);
+    const v = vectors[lambdas.indexOf(lmin)];
     const order = v.map((c, j) => ({ c: Math.abs(c), j })).sort((a, b) => b.c - a.c);
     const involved = order.filter((o) => o.c >= 0.2).map((o) => names[o.j]);
     const what = involved.length >= 2 ? `the data cannot tell ${involved.slice(0, -1).join(', ')} and ${involved[involved.length - 1]} apart` : `parameter ${names[order[0].j]} is not determined by the data`;

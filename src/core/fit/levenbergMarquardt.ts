@@ -21,27 +21,10 @@
  * determine the parameters; the eigenvector of the smallest eigenvalue names those that they cannot
  * tell apart.
  */
-import { create, invDependencies } from 'mathjs';
 import { fail, MixgapError } from '../errors';
-import { solveInPlace } from '../ternary/linear';
 import { MAX_CONDITION } from './leastSquares';
+import { invert, solve } from './smallMatrix';
 import { symmetricEigen } from './symmetricEigen';
-
-// absTol 0: mathjs's default (1e-15) takes any number below it for zero, and the normal equations
-// of parameters in J/mol or of a nearly perfect fit are that small.
-const math = create({ invDependencies }, { absTol: 0 });
-
-/**
- * Solves the small system M z = b (Gaussian elimination with partial pivoting, ../ternary/linear.ts;
- * a tenth of the time of mathjs's lusolve for p = 3, and it is solved once per trial step);
- * undefined when M is singular.
- */
-function solve(M: readonly number[][], b: readonly number[]): number[] | undefined {
-  const n = b.length;
-  const A = new Float64Array(n * n), z = Float64Array.from(b);
-  M.forEach((row, i) => row.forEach((v, j) => { A[i * n + j] = v; }));
-  return solveInPlace(A, z, n) ? Array.from(z) : undefined;
-}
 
 export interface LeastSquaresProblem {
   /** Parameter names, for messages. */
@@ -258,6 +241,7 @@ export function inverseNormal(J: number[][]): number[][] {
   for (const row of J) for (let j = 0; j < p; j++) s[j] += row[j] * row[j];
   for (let j = 0; j < p; j++) s[j] = Math.sqrt(s[j]);
   const { A } = normal(J.map((row) => row.map((v, j) => v / s[j])), new Array<number>(J.length).fill(0));
-  const inv = math.inv(A) as number[][];
+  const inv = invert(A);
+  if (!inv) fail('input', 'the parameters\' covariance cannot be computed: the normal matrix is singular; fix a parameter or add measurements');
   return inv.map((row, j) => row.map((v, k) => v / (s[j] * s[k])));
 }

@@ -18,7 +18,7 @@
  * at the end that these are the global answers (the highest gap temperature; a critical point the
  * global search finds).
  */
-import { phaseMap, type Gap, type PhaseMap } from '../binodal';
+import { continueMap, phaseMap, type Gap, type PhaseMap } from '../binodal';
 import { T_SEARCH_MAX, T_SEARCH_MIN } from '../constants';
 import { criticalPoints } from '../critical';
 import { refineExtremum } from '../curvature';
@@ -105,6 +105,8 @@ interface Track {
   T?: number;
   /** Critical point: last (Tc, u). */
   u?: number;
+  /** Cloud point: slope df/dT of the last solve's bracket (see cloudTemperature). */
+  slope?: number;
 }
 
 /**
@@ -200,13 +202,18 @@ function nearestGap(map: PhaseMap, distance: (g: Gap) => number, T: number): Gap
 
 /**
  * Temperature at which x0 lies on the binodal, near `T0` (the measured cloud point, then the last
- * answer), where x0 leaves its gap on heating. A bracket is found by stepping T (1 %, doubling) and the root by Brent's method to a
+ * answer), where x0 leaves its gap on heating. A bracket is found by a secant step from the last
+ * solve (below) or else by stepping T (1 %, doubling), and the root by Brent's method to a
  * relative 1e-13 (what gapTemperature reaches), each phase map warm-started from the last.
  */
 function cloudTemperature(model: BinaryModel, x0: number, Tmeasured: number, track: Track): number {
-  let hint: PhaseMap | undefined;
+  let hint: PhaseMap | undefined = track.map;
   const gapAtT = (T: number): Gap | undefined => {
-    const map = phaseMap(model.at(T), hint && Math.abs(hint.T - T) < 0.1 * T ? hint : undefined);
+    const iso = model.at(T);
+    const near = hint && Math.abs(hint.T - T) < 0.1 * T ? hint : undefined;
+    // continued from a nearby map with a gap (phaseMap's answer, bit for bit, when it settles; see
+    // ../binodal.ts), else solved afresh; a gap it cannot see would be caught by `verify`
+    const map = (near && near.gaps.length > 0 && continueMap(iso, near)) || phaseMap(iso, near);
     hint = map;
     if (map.gaps.length === 0) return undefined;
     return map.gaps.reduce((best, g) => (dist(g) < dist(best) ? g : best));
@@ -221,9 +228,21 @@ function cloudTemperature(model: BinaryModel, x0: number, Tmeasured: number, tra
   };
   const T0 = track.T ?? Tmeasured;
   const f0 = f(T0);
-  let lo = T0, hi = T0, fLo = f0, fHi = f0;
+  let lo = T0, hi = T0, fLo = f0, fHi = f0, bracketed = false;
+  // Inside a fit the model moves little between evaluations: a secant step with the last solve's
+  // slope of f, made 1.5 times as long (and at least 1e-11 T0), usually brackets the root at once,
+  // and narrowly, so that Brent's method needs a few evaluations instead of a dozen.
+  if (track.slope !== undefined && track.slope < 0) {
+    const dT = -f0 / track.slope;
+    const step = Math.sign(dT || 1) * Math.max(1.5 * Math.abs(dT), 1e-11 * T0);
+    if (Math.abs(step) < 0.01 * T0) {
+      const T1 = T0 + step, f1 = f(T1);
+      if (f0 > 0 && f1 <= 0) { hi = T1; fHi = f1; bracketed = true; }
+      else if (f0 <= 0 && f1 > 0) { lo = T1; fLo = f1; bracketed = true; }
+    }
+  }
   // f > 0 below the cloud point (inside the gap), <= 0 above it: step up while inside, down while outside
-  for (let step = 0.01; ; step *= 2) {
+  for (let step = 0.01; !bracketed; step *= 2) {
     if (f0 > 0) {
       if (hi >= T_SEARCH_MAX) fail('range', msg`x0 = ${x0} is still inside a gap at ${kelvin(T_SEARCH_MAX)}`);
       lo = hi; fLo = fHi;
@@ -239,6 +258,8 @@ function cloudTemperature(model: BinaryModel, x0: number, Tmeasured: number, tra
   const T = brentRoot(f, lo, hi, fLo, fHi, 1e-13 * hi);
   if (Number.isNaN(T)) fail('convergence', msg`the binodal crossing of x0 = ${x0} near ${kelvin(Tmeasured)} could not be bracketed`);
   track.T = T;
+  track.slope = (fHi - fLo) / (hi - lo);
+  track.map = hint;
   return T;
 }
 

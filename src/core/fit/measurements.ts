@@ -126,8 +126,12 @@ export class ResidualEvaluator {
     this.tracks = this.data.map(() => ({}));
   }
 
-  /** Unweighted residuals, one per row; throws MixgapError when the model has no such feature. */
-  residuals(model: BinaryModel): number[] {
+  /**
+   * Unweighted residuals, one per row; throws MixgapError when the model has no such feature.
+   * `fresh`: tie-lines and boundary points from phase maps solved afresh, not followed.
+   */
+  residuals(model: BinaryModel, fresh = false): number[] {
+    if (fresh) this.tracks.forEach((t) => { t.map = undefined; });
     const out: number[] = [];
     this.data.forEach((m, i) => {
       const track = this.tracks[i];
@@ -211,7 +215,11 @@ export class ResidualEvaluator {
 
   private mapAt(model: BinaryModel, T: number, track: Track): PhaseMap {
     const hint = track.map && track.map.T === T ? track.map : undefined;
-    const map = phaseMap(model.at(T), hint);
+    const iso = model.at(T);
+    // the last model's map at this T, followed to this model (continueMap: phaseMap's answer bit
+    // for bit when it settles, else solved afresh); fitSystems reports its final residuals from
+    // fresh phase maps
+    const map = (hint && hint.gaps.length > 0 && continueMap(iso, hint)) || phaseMap(iso, hint);
     track.map = map;
     return map;
   }

@@ -119,7 +119,9 @@ export function fitSystems(family: ModelFamily, parameters: readonly ParameterSp
   const models = systems.map((_, k) => buildModel(family, valuesAt(theta, k)));
   evaluators.forEach((e, k) => e.verify(models[k]));
   const rows = evaluators.flatMap((e, k) => {
-    const r = e.residuals(models[k]);
+    // tie-lines and boundary points from fresh phase maps (the iterations followed them from model
+    // to model); cloud and critical points as verified just above
+    const r = e.residuals(models[k], true);
     return e.rows.map((row, i) => ({ ...row, system: k, residual: r[i] }));
   });
   const n = rows.length, p = free.length, dof = n - p;

@@ -29,9 +29,10 @@ const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length
 const fmt = (us: number) => (us < 1000 ? `${us.toFixed(2)} µs` : `${(us / 1000).toFixed(2)} ms`);
 
 /**
- * Median wall and CPU time (µs) of `task`, run `runs` times after 2 warm-up runs. CPU time (user +
- * system of this process) is what the work costs; wall time also counts waiting for a core on a
- * busy machine.
+ * Median wall and CPU time (µs) of `task`, run `runs` times after 2 warm-up runs. Wall time is
+ * what a user waits, and counts waiting for a core on a busy machine; CPU time (user + system of
+ * the process) is not slowed by other load but includes V8's garbage-collector threads, so it can
+ * exceed wall time.
  */
 function timed(task: () => unknown, runs: number): { wall: number; cpu: number } {
   for (let w = 0; w < 2; w++) task();

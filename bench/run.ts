@@ -22,6 +22,7 @@ import JSZip from 'jszip';
 import { calcWorkbook } from '../src/hosts/calc';
 import { tbinodalBench } from './tbinodal';
 import { uncertaintySection } from './uncertainty';
+import { fitSection } from './fit';
 
 const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)];
 const fmt = (us: number) => (us < 1000 ? `${us.toFixed(2)} µs` : `${(us / 1000).toFixed(2)} ms`);
@@ -73,6 +74,7 @@ else if (process.argv[2] === 'startup') startup();
 else if (process.argv[2] === 'workbooks') void workbookSection();
 else if (process.argv[2] === 'sweep') sweepAgainstFloor(); // this part alone: node dist/node/bench.js sweep
 else if (process.argv[2] === 'uncertainty') uncertaintySection(report);
+else if (process.argv[2] === 'fit') fitSection(report); // node dist/node/bench.js fit
 else main().then(startup).catch((e) => { console.error(e); process.exit(1); });
 
 async function main() {
@@ -104,6 +106,7 @@ report('fit 3 Redlich–Kister terms with slopes to 50 tie-lines (core, 3 weight
 const tie50Rows = tie50.map((t) => [t.T, t.xLow, t.xHigh]);
 report('FITTIELINES cell function, same 50 tie-lines', fmt(whole(() => fitCells.fitTieLines(tie50Rows, 3, [[true]]))));
 tbinodalBench(report);
+fitSection(report);
 
 
 // Memory is measured in a fresh process, so that nothing above inflates it.

@@ -1,15 +1,14 @@
 /**
- * Weighted linear least squares for the fits, with the matrix algebra done by mathjs.
+ * Weighted linear least squares for the fits (small matrices: ./smallMatrix.ts, ./symmetricEigen.ts).
  *
  * The rows arrive already weighted (each equation scaled so that its residual reads as a
  * composition error). Columns are equilibrated (scaled to unit length) before the normal matrix
  * N = A^T A is formed; the condition number of the equilibrated A, sqrt(lambda_max/lambda_min)
  * of N, decides whether the data determine the coefficients at all.
  */
-import { create, eigsDependencies, invDependencies, lusolveDependencies } from 'mathjs';
 import { fail } from '../errors';
-
-const math = create({ eigsDependencies, invDependencies, lusolveDependencies });
+import { invert, solve } from './smallMatrix';
+import { symmetricEigen } from './symmetricEigen';
 
 /**
  * Above this condition number of the equilibrated design matrix the fit is refused: the normal
@@ -59,20 +58,22 @@ export function leastSquares(A: number[][], r: number[], what: string, advice: s
   }
   for (let j = 0; j < p; j++) for (let k = 0; k < j; k++) N[k][j] = N[j][k];
 
-  const lambdas = (math.eigs(N).values as unknown as number[]).map(Number);
+  const lambdas = symmetricEigen(N).values;
   const lmin = Math.min(...lambdas), lmax = Math.max(...lambdas);
   const condition = lmin > 0 ? Math.sqrt(lmax / lmin) : Infinity;
   if (!(condition <= MAX_CONDITION)) {
     fail('input', `the fit is ill-conditioned (condition number ${condition === Infinity ? 'infinite' : condition.toExponential(1)}): the data cannot tell the ${what} apart; ${advice}`);
   }
-  const z = (math.lusolve(N, b) as number[][]).map((row) => row[0]);
+  const z = solve(N, b);
+  if (!z) return fail('input', `the data cannot tell the ${what} apart (a singular normal matrix); ${advice}`);
   const theta = z.map((v, j) => v / s[j]);
 
   const residuals = A.map((row, i) => row.reduce((sum, a, j) => sum + a * theta[j], 0) - r[i]);
   const dof = n - p;
   if (dof === 0) return { theta, residuals, condition, dof };
   const variance = residuals.reduce((sum, e) => sum + e * e, 0) / dof;
-  const Ninv = math.inv(N) as number[][];
+  const Ninv = invert(N);
+  if (!Ninv) return fail('input', `the data cannot tell the ${what} apart (a singular normal matrix); ${advice}`);
   const covariance = Ninv.map((row, j) => row.map((v, k) => (variance * v) / (s[j] * s[k])));
   return { theta, covariance, variance, residuals, condition, dof };
 }

@@ -17,17 +17,14 @@
  * what the iteration needs (Press et al., Numerical Recipes, 3rd ed. (2007), sec. 5.7).
  *
  * At the solution the columns of J are scaled to unit length and the condition number of the
- * scaled J (sqrt of the eigenvalue ratio of its normal matrix, mathjs eigs) decides whether the data
+ * scaled J (sqrt of the eigenvalue ratio of its normal matrix, ./symmetricEigen.ts) decides whether the data
  * determine the parameters; the eigenvector of the smallest eigenvalue names those that they cannot
  * tell apart.
  */
-import { create, eigsDependencies, invDependencies, lusolveDependencies } from 'mathjs';
 import { fail, MixgapError } from '../errors';
 import { MAX_CONDITION } from './leastSquares';
-
-// absTol 0: mathjs's default (1e-15) takes any number below it for zero, a right-hand side too,
-// and the normal equations of parameters in J/mol or of a nearly perfect fit are that small.
-const math = create({ eigsDependencies, invDependencies, lusolveDependencies }, { absTol: 0 });
+import { invert, solve } from './smallMatrix';
+import { symmetricEigen } from './symmetricEigen';
 
 export interface LeastSquaresProblem {
   /** Parameter names, for messages. */
@@ -103,8 +100,13 @@ export function jacobian(
   return J;
 }
 
-/** Minimises S from theta0; fails with a named reason when it cannot. */
-export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: readonly number[]): LeastSquaresSolution {
+/**
+ * Minimises S from theta0; fails with a named reason when it cannot. With `check: false` the
+ * identifiability check at the solution is left to the caller (who may judge it in other
+ * coordinates, see ./nonlinear.ts): `condition` is then NaN.
+ */
+export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: readonly number[], options: { check?: boolean } = {}): LeastSquaresSolution {
+  const check = options.check !== false;
   const p = theta0.length;
   let theta = [...theta0];
   const start = costOf(problem, theta);
@@ -125,12 +127,12 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: readonl
     const gs = g.map((v, j) => -v / d[j]);
     while (lambda <= 1e16) {
       const M = As.map((row, j) => row.map((v, k) => (j === k ? v + lambda : v)));
-      try {
-        delta = (math.lusolve(M, gs) as number[][]).map((row, j) => row[0] / d[j]);
-      } catch {
+      const z = solve(M, gs);
+      if (!z) {
         lambda *= 4;
         continue;
       }
+      delta = z.map((v, j) => v / d[j]);
       const trial = theta.map((v, j) => v + delta[j]);
       const next = costOf(problem, trial);
       if (next.r && next.S < S) {
@@ -139,12 +141,12 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: readonl
         theta = trial; r = next.r; S = next.S;
         lambda = Math.max(lambda / 3, 1e-12);
         accepted = true;
-        if (small || flat || S === 0) return finish(problem, theta, r, S, iter);
+        if (small || flat || S === 0) return finish(problem, theta, r, S, iter, check);
         break;
       }
       // no decrease: converged if even the Gauss–Newton prediction is below rounding of S
       const predicted = -g.reduce((s, v, j) => s + v * delta[j], 0);
-      if (predicted <= 1e-14 * S + 1e-300) return finish(problem, theta, r, S, iter);
+      if (predicted <= 1e-14 * S + 1e-300) return finish(problem, theta, r, S, iter, check);
       lambda *= 4;
     }
     if (!accepted) {
@@ -178,8 +180,16 @@ function worstGradient(names: readonly string[], g: readonly number[], D: readon
   return names[best];
 }
 
-/** The Jacobian at the solution and the identifiability check. */
-function finish(problem: LeastSquaresProblem, theta: number[], r: number[], S: number, iterations: number): LeastSquaresSolution {
+/**
+ * The Jacobian at the solution, one Gauss–Newton step with it, and the identifiability check.
+ * The iterations stop where S no longer changes beyond its rounding (1e-14 S), which leaves each
+ * parameter up to about 1e-7 of its standard error from the minimum (S - S_min ~ (dtheta/sigma)^2);
+ * the step (J^T J) delta = -J^T r with the central-difference Jacobian (good to ~1e-8) needs no
+ * comparison of S and takes the rest. It is kept unless S rises by more than 1e-11 of itself: the
+ * residuals carry the root solvers' noise (up to ~1e-12 relative, see above), so S is only
+ * known to a few 1e-12 and a step that refines the parameters can raise it by that much.
+ */
+function finish(problem: LeastSquaresProblem, theta: number[], r: number[], S: number, iterations: number, check: boolean): LeastSquaresSolution {
   const edges: Array<{ name: string; step: number; why?: string }> = [];
   const J = jacobian(problem, theta, r, true, edges);
   // A minimum within one difference step of where the residuals stop existing is the edge of the
@@ -189,8 +199,24 @@ function finish(problem: LeastSquaresProblem, theta: number[], r: number[], S: n
     const e = edges[0];
     fail('convergence', `the fit ran into the edge of what the model can describe: moving ${e.name} by ${e.step.toPrecision(3)} from ${theta[problem.names.indexOf(e.name)].toPrecision(8)} loses a measured feature${e.why ? ` (${e.why})` : ''}; the data ask for more than the model gives there: check the measurements, free another parameter or choose another model`);
   }
-  const condition = identifiable(problem.names, J);
+  const step = gaussNewtonStep(J, r);
+  if (step) {
+    const trial = theta.map((v, j) => v + step[j]);
+    const next = costOf(problem, trial);
+    if (next.r && next.S <= S * (1 + 1e-11)) { theta = trial; r = next.r; S = next.S; }
+  }
+  const condition = check ? identifiable(problem.names, J) : NaN;
   return { theta, r, J, S, iterations, condition };
+}
+
+/** delta solving (J^T J) delta = -J^T r with unit diagonal scaling; undefined when singular. */
+function gaussNewtonStep(J: number[][], r: readonly number[]): number[] | undefined {
+  const { A, g } = normal(J, r);
+  const d = A.map((row, j) => Math.sqrt(row[j]));
+  if (!d.every((v) => v > 0 && Number.isFinite(v))) return undefined;
+  const z = solve(A.map((row, j) => row.map((v, k) => v / (d[j] * d[k]))), g.map((v, j) => -v / d[j]));
+  const delta = z?.map((v, j) => v / d[j]);
+  return delta && delta.every(Number.isFinite) ? delta : undefined;
 }
 
 /**
@@ -209,12 +235,11 @@ export function identifiable(names: readonly string[], J: number[][]): number {
   const scaled = J.map((row) => row.map((v, j) => v / s[j]));
   const { A } = normal(scaled, new Array<number>(J.length).fill(0));
   if (p === 1) return 1;
-  const { values, eigenvectors } = math.eigs(A) as unknown as { values: number[]; eigenvectors: Array<{ value: number; vector: number[] }> };
-  const lambdas = values.map(Number);
+  const { values: lambdas, vectors } = symmetricEigen(A);
   const lmin = Math.min(...lambdas), lmax = Math.max(...lambdas);
   const condition = lmin > 0 ? Math.sqrt(lmax / lmin) : Infinity;
   if (!(condition <= MAX_CONDITION)) {
-    const v = eigenvectors.reduce((a, b) => (Number(b.value) < Number(a.value) ? b : a)).vector.map(Number);
+    const v = vectors[lambdas.indexOf(lmin)];
     const order = v.map((c, j) => ({ c: Math.abs(c), j })).sort((a, b) => b.c - a.c);
     const involved = order.filter((o) => o.c >= 0.2).map((o) => names[o.j]);
     const what = involved.length >= 2 ? `the data cannot tell ${involved.slice(0, -1).join(', ')} and ${involved[involved.length - 1]} apart` : `parameter ${names[order[0].j]} is not determined by the data`;
@@ -230,6 +255,7 @@ export function inverseNormal(J: number[][]): number[][] {
   for (const row of J) for (let j = 0; j < p; j++) s[j] += row[j] * row[j];
   for (let j = 0; j < p; j++) s[j] = Math.sqrt(s[j]);
   const { A } = normal(J.map((row) => row.map((v, j) => v / s[j])), new Array<number>(J.length).fill(0));
-  const inv = math.inv(A) as number[][];
+  const inv = invert(A);
+  if (!inv) fail('input', 'the parameters\' covariance cannot be computed: the normal matrix is singular; fix a parameter or add measurements');
   return inv.map((row, j) => row.map((v, k) => v / (s[j] * s[k])));
 }

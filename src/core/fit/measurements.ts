@@ -15,14 +15,14 @@
  * critical points are solved locally, starting from where the previous evaluation found them (a
  * secant on the binodal for a cloud point, a root in T of the minimum of the scaled curvature for a
  * critical point), instead of searching 1 K to 20000 K each time (15 ms and 85 ms); `verify` checks
- * at the end that these are the global answers (the highest gap temperature; a critical point the
- * global search finds).
+ * at the end that these are the global answers (no gap holds x0 at a higher temperature; a
+ * critical point the global search finds).
  */
-import { phaseMap, type Gap, type PhaseMap } from '../binodal';
+import { continueMap, phaseMap, type Gap, type PhaseMap } from '../binodal';
 import { T_SEARCH_MAX, T_SEARCH_MIN } from '../constants';
 import { criticalPoints } from '../critical';
 import { refineExtremum } from '../curvature';
-import { fail, kelvin, msg } from '../errors';
+import { fail, kelvin, MixgapError, msg } from '../errors';
 import { gapTemperature } from '../gapTemperature';
 import type { BinaryModel } from '../model';
 import { logRatio, pointAt } from '../model';
@@ -105,6 +105,8 @@ interface Track {
   T?: number;
   /** Critical point: last (Tc, u). */
   u?: number;
+  /** Cloud point: slope df/dT of the last solve's bracket (see cloudTemperature). */
+  slope?: number;
 }
 
 /**
@@ -124,8 +126,12 @@ export class ResidualEvaluator {
     this.tracks = this.data.map(() => ({}));
   }
 
-  /** Unweighted residuals, one per row; throws MixgapError when the model has no such feature. */
-  residuals(model: BinaryModel): number[] {
+  /**
+   * Unweighted residuals, one per row; throws MixgapError when the model has no such feature.
+   * `fresh`: tie-lines and boundary points from phase maps solved afresh, not followed.
+   */
+  residuals(model: BinaryModel, fresh = false): number[] {
+    if (fresh) this.tracks.forEach((t) => { t.map = undefined; });
     const out: number[] = [];
     this.data.forEach((m, i) => {
       const track = this.tracks[i];
@@ -167,14 +173,11 @@ export class ResidualEvaluator {
   verify(model: BinaryModel): void {
     let critical: ReturnType<typeof criticalPoints> | undefined;
     const all = () => (critical ??= criticalPoints(model));
+    const clouds: Array<{ i: number; x0: number; local: number }> = [];
     this.data.forEach((m, i) => {
       const track = this.tracks[i];
       if (m.kind === 'cloud point') {
-        const local = cloudTemperature(model, m.x0, m.T, track);
-        const global = gapTemperature(model, m.x0, all());
-        if (!(Math.abs(local - global) <= 1e-7 * global)) {
-          fail('convergence', msg`measurement ${i + 1} (cloud point of x0 = ${m.x0}): the fit settled on a binodal crossing at ${kelvin(local)}, but the gap temperature of the fitted model is ${kelvin(global)}; give starting values closer to the data`);
-        }
+        clouds.push({ i, x0: m.x0, local: cloudTemperature(model, m.x0, m.T, track) });
       } else if (m.kind === 'critical point') {
         const local = criticalNear(model, m.Tc, m.xc, track);
         if (!all().some((c) => Math.abs(c.T - local.T) <= 1e-6 * local.T && Math.abs(c.x - local.x) <= 1e-5)) {
@@ -182,11 +185,41 @@ export class ResidualEvaluator {
         }
       }
     });
+    if (clouds.length === 0) return;
+    // The local crossing is the gap temperature (the highest T at which x0 lies in a gap) unless x0
+    // is inside a gap at a higher temperature. The temperatures gapTemperature samples (evenly in
+    // ln T from the top, plus next to each critical point) are tested above each crossing, each
+    // phase map once for all cloud points: the same check gapTemperature makes before it bisects.
+    const lowest = Math.min(...clouds.map((c) => c.local));
+    const N = 200;
+    const samples: number[] = [];
+    for (let k = 0; k < N; k++) samples.push(T_SEARCH_MIN * Math.pow(T_SEARCH_MAX / T_SEARCH_MIN, k / (N - 1)));
+    for (const c of all()) samples.push(c.kind === 'upper' ? c.T * (1 - 1e-7) : c.T * (1 + 1e-7));
+    let hint: PhaseMap | undefined;
+    for (const T of samples.filter((t) => t > lowest * (1 + 1e-9)).sort((a, b) => b - a)) {
+      let map: PhaseMap | undefined;
+      try {
+        map = phaseMap(model.at(T), hint);
+        hint = map;
+      } catch (e) {
+        // a boundary beyond the dilute limit: the gap spans every composition resolved on that side
+        if (!(e instanceof MixgapError && e.reason === 'range')) throw e;
+      }
+      for (const c of clouds) {
+        if (!(T > c.local * (1 + 1e-9)) || (map && !map.gaps.some((g) => g.low.x < c.x0 && c.x0 < g.high.x))) continue;
+        const global = gapTemperature(model, c.x0, all());
+        fail('convergence', msg`measurement ${c.i + 1} (cloud point of x0 = ${c.x0}): the fit settled on a binodal crossing at ${kelvin(c.local)}, but the gap temperature of the fitted model is ${kelvin(global)}; give starting values closer to the data`);
+      }
+    }
   }
 
   private mapAt(model: BinaryModel, T: number, track: Track): PhaseMap {
     const hint = track.map && track.map.T === T ? track.map : undefined;
-    const map = phaseMap(model.at(T), hint);
+    const iso = model.at(T);
+    // the last model's map at this T, followed to this model (continueMap: phaseMap's answer bit
+    // for bit when it settles, else solved afresh); fitSystems reports its final residuals from
+    // fresh phase maps
+    const map = (hint && hint.gaps.length > 0 && continueMap(iso, hint)) || phaseMap(iso, hint);
     track.map = map;
     return map;
   }
@@ -200,13 +233,18 @@ function nearestGap(map: PhaseMap, distance: (g: Gap) => number, T: number): Gap
 
 /**
  * Temperature at which x0 lies on the binodal, near `T0` (the measured cloud point, then the last
- * answer), where x0 leaves its gap on heating. A bracket is found by stepping T (1 %, doubling) and the root by Brent's method to a
+ * answer), where x0 leaves its gap on heating. A bracket is found by a secant step from the last
+ * solve (below) or else by stepping T (1 %, doubling), and the root by Brent's method to a
  * relative 1e-13 (what gapTemperature reaches), each phase map warm-started from the last.
  */
 function cloudTemperature(model: BinaryModel, x0: number, Tmeasured: number, track: Track): number {
-  let hint: PhaseMap | undefined;
+  let hint: PhaseMap | undefined = track.map;
   const gapAtT = (T: number): Gap | undefined => {
-    const map = phaseMap(model.at(T), hint && Math.abs(hint.T - T) < 0.1 * T ? hint : undefined);
+    const iso = model.at(T);
+    const near = hint && Math.abs(hint.T - T) < 0.1 * T ? hint : undefined;
+    // continued from a nearby map with a gap (phaseMap's answer, bit for bit, when it settles; see
+    // ../binodal.ts), else solved afresh; a gap it cannot see would be caught by `verify`
+    const map = (near && near.gaps.length > 0 && continueMap(iso, near)) || phaseMap(iso, near);
     hint = map;
     if (map.gaps.length === 0) return undefined;
     return map.gaps.reduce((best, g) => (dist(g) < dist(best) ? g : best));
@@ -221,9 +259,21 @@ function cloudTemperature(model: BinaryModel, x0: number, Tmeasured: number, tra
   };
   const T0 = track.T ?? Tmeasured;
   const f0 = f(T0);
-  let lo = T0, hi = T0, fLo = f0, fHi = f0;
+  let lo = T0, hi = T0, fLo = f0, fHi = f0, bracketed = false;
+  // Inside a fit the model moves little between evaluations: a secant step with the last solve's
+  // slope of f, made 1.5 times as long (and at least 1e-11 T0), usually brackets the root at once,
+  // and narrowly, so that Brent's method needs a few evaluations instead of a dozen.
+  if (track.slope !== undefined && track.slope < 0) {
+    const dT = -f0 / track.slope;
+    const step = Math.sign(dT || 1) * Math.max(1.5 * Math.abs(dT), 1e-11 * T0);
+    if (Math.abs(step) < 0.01 * T0) {
+      const T1 = T0 + step, f1 = f(T1);
+      if (f0 > 0 && f1 <= 0) { hi = T1; fHi = f1; bracketed = true; }
+      else if (f0 <= 0 && f1 > 0) { lo = T1; fLo = f1; bracketed = true; }
+    }
+  }
   // f > 0 below the cloud point (inside the gap), <= 0 above it: step up while inside, down while outside
-  for (let step = 0.01; ; step *= 2) {
+  for (let step = 0.01; !bracketed; step *= 2) {
     if (f0 > 0) {
       if (hi >= T_SEARCH_MAX) fail('range', msg`x0 = ${x0} is still inside a gap at ${kelvin(T_SEARCH_MAX)}`);
       lo = hi; fLo = fHi;
@@ -239,6 +289,8 @@ function cloudTemperature(model: BinaryModel, x0: number, Tmeasured: number, tra
   const T = brentRoot(f, lo, hi, fLo, fHi, 1e-13 * hi);
   if (Number.isNaN(T)) fail('convergence', msg`the binodal crossing of x0 = ${x0} near ${kelvin(Tmeasured)} could not be bracketed`);
   track.T = T;
+  track.slope = (fHi - fLo) / (hi - lo);
+  track.map = hint;
   return T;
 }
 
@@ -249,6 +301,23 @@ function cloudTemperature(model: BinaryModel, x0: number, Tmeasured: number, tra
  * relative 1e-13.
  */
 function criticalNear(model: BinaryModel, Tc: number, xc: number | undefined, track: Track): { T: number; x: number } {
+  try {
+    return localCritical(model, Tc, xc, track);
+  } catch (e) {
+    if (!(e instanceof MixgapError)) throw e;
+  }
+  // The local bracket failed (the model's critical point lies far from the last one, or the
+  // curvature minimum followed from u = 0 sits at a dilute end, as for a long polymer): take the
+  // global search's critical point nearest to the measured one and solve locally from there.
+  const all = criticalPoints(model);
+  if (all.length === 0) fail('none', msg`the model has no critical point (wanted near ${kelvin(Tc)})`);
+  const distance = (c: { T: number; x: number }) => Math.abs(Math.log(c.T / Tc)) + (xc === undefined ? 0 : Math.abs(c.x - xc));
+  const nearest = all.reduce((best, c) => (distance(c) < distance(best) ? c : best));
+  return localCritical(model, Tc, xc, { ...track, T: nearest.T, u: logRatio(nearest.x) }, track);
+}
+
+/** criticalNear from the tracked (or measured) point only; `out` receives the new track. */
+function localCritical(model: BinaryModel, Tc: number, xc: number | undefined, track: Track, out: Track = track): { T: number; x: number } {
   let u = track.u ?? logRatio(xc ?? 0.5);
   const depth = (T: number) => {
     const m = refineExtremum(model.at(T), u - 0.5, u + 0.5, 1, 10, 1e-14);
@@ -273,7 +342,7 @@ function criticalNear(model: BinaryModel, Tc: number, xc: number | undefined, tr
   const T = brentRoot(depth, lo, hi, qLo, qHi, 1e-13 * hi);
   if (Number.isNaN(T)) fail('convergence', msg`the critical point near ${kelvin(Tc)} could not be bracketed`);
   depth(T);
-  track.T = T;
-  track.u = u;
+  out.T = T;
+  out.u = u;
   return { T, x: pointAt(u).x };
 }

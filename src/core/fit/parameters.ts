@@ -10,12 +10,14 @@
  *   lengths 1; alpha 0.1). It scales finite-difference steps and convergence tests.
  * - its default starting value, for a free parameter the user gives none: a system with a gap
  *   near Tref (L0 = omega = 2.5 R Tref, i.e. Tc = 1.25 Tref for the regular solution; chi 1.2 times
- *   its critical value; NRTL taus of 2.5), and 0 for correction terms.
+ *   its critical value; NRTL taus 1.2 times those at which the system first splits at the given
+ *   alpha, see nrtlStartTaus), and 0 for correction terms.
  */
 import { R } from '../constants';
 import { fail } from '../errors';
 import { owns, type CardValues, type ModelFamily } from '../family';
 import type { BinaryModel } from '../model';
+import { nrtl } from '../models/nrtl';
 
 /** One parameter of a fit: its card key, its value (the start when free), whether the fit moves it. */
 export interface ParameterSpec {
@@ -60,6 +62,41 @@ export function parameterDimension(name: string): 'energy' | 'energy per K' | 'K
   return '1';
 }
 
+/**
+ * Starting taus (tau12, tau21) for NRTL at this alpha: 1.2 times the tau at which the symmetric
+ * system (tau12 = tau21) first splits, i.e. x y g''/RT (Renon and Prausnitz, AIChE J. 14 (1968)
+ * 135) falls to zero somewhere on x = 0.05, 0.1, ..., 0.95: found on a grid of tau in steps of
+ * 0.1 up to 20 and refined by bisection (1.28 at alpha = 0.3, 2.69 at 0.47). Should the
+ * symmetric system not split (tau G = tau exp(-alpha tau) is bounded by 1/(e alpha)), the first
+ * splitting pair of the asymmetric grid tau12 = 0.5..20, tau21 = -tau12/4, times 1.2; (2.5, 2.5)
+ * if none.
+ */
+export function nrtlStartTaus(alpha: number): [number, number] {
+  if (!(alpha > 0)) return [2.5, 2.5];
+  const splits = (t12: number, t21: number) => {
+    const iso = nrtl({ a12: t12, b12: 0, a21: t21, b21: 0, alpha }).at(1);
+    for (let i = 1; i < 20; i++) {
+      const x = i / 20, y = 1 - x;
+      if ((x * y * iso.d2g(x, y)) / iso.RT <= 0) return true;
+    }
+    return false;
+  };
+  for (let k = 1; k <= 200; k++) {
+    if (!splits(0.1 * k, 0.1 * k)) continue;
+    let lo = 0.1 * (k - 1), hi = 0.1 * k;
+    for (let i = 0; i < 40; i++) {
+      const mid = (lo + hi) / 2;
+      if (splits(mid, mid)) hi = mid; else lo = mid;
+    }
+    return [1.2 * hi, 1.2 * hi];
+  }
+  for (let k = 1; k <= 40; k++) {
+    const t = 0.5 * k;
+    if (splits(t, -t / 4) && splits(1.2 * t, -1.2 * t / 4)) return [1.2 * t, -1.2 * t / 4];
+  }
+  return [2.5, 2.5];
+}
+
 /** The model of `family` with these parameter values (SI units), through the family's card reader. */
 export function buildModel(family: ModelFamily, values: Readonly<Record<string, number>>): BinaryModel {
   const keys = Object.keys(values);
@@ -100,10 +137,14 @@ export function startingValues(parameters: readonly ParameterSpec[], Tref: numbe
     if (unset.includes('chi.B')) values['chi.B'] = (chi - (values['chi.A'] ?? 0)) * Tref;
     else values['chi.A'] = chi - (values['chi.B'] ?? 0) / Tref;
   }
-  // NRTL: tau = 2.5 on both sides, carried by b_ij when it is free, else by a_ij.
-  for (const [a, b] of [['a12', 'b12'], ['a21', 'b21']]) {
-    if (unset.includes(b)) values[b] = (2.5 - (values[a] ?? 0)) * Tref;
-    else if (unset.includes(a)) values[a] = 2.5 - (values[b] ?? 0) / Tref;
+  // NRTL: the taus of nrtlStartTaus (2.5 on both sides at alpha = 0.3), carried by b_ij when it
+  // is free, else by a_ij.
+  if (['a12', 'b12', 'a21', 'b21'].some((n) => unset.includes(n))) {
+    const taus = nrtlStartTaus(values.alpha ?? 0.3);
+    for (const [a, b, tau] of [['a12', 'b12', taus[0]], ['a21', 'b21', taus[1]]] as const) {
+      if (unset.includes(b)) values[b] = (tau - (values[a] ?? 0)) * Tref;
+      else if (unset.includes(a)) values[a] = tau - (values[b] ?? 0) / Tref;
+    }
   }
   return values;
 }

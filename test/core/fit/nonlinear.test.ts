@@ -12,7 +12,7 @@ import { MixgapError } from '../../../src/core/errors';
 import type { ModelFamily } from '../../../src/core/family';
 import { gapTemperature } from '../../../src/core/gapTemperature';
 import type { Measurement } from '../../../src/core/fit/measurements';
-import { fitModel } from '../../../src/core/fit/nonlinear';
+import { fitModel, fitSystems } from '../../../src/core/fit/nonlinear';
 import { buildModel, parameterUnit, type ParameterSpec } from '../../../src/core/fit/parameters';
 import { floryHugginsFamily } from '../../../src/core/models/floryHuggins';
 import { nrtlFamily } from '../../../src/core/models/nrtl';
@@ -118,6 +118,30 @@ describe('round trip: parameters -> data (our forward solvers) -> parameters, ev
       for (const row of fit.rows) expect(Math.abs(row.residual), `${row.quantity} of measurement ${row.measurement + 1}`).toBeLessThan(row.quantity === 'T' || row.quantity === 'Tc' ? 1e-7 : 1e-9);
     });
   }
+});
+
+describe('joint fit of several systems sharing the free parameters (fitSystems)', () => {
+  // Three polymer fractions (NB = 100, 300, 1000 in a solvent, NA = 1) with one chi = A + B/T:
+  // one critical temperature each (our critical-point search) gives A and B back. Same round
+  // trip and tolerances as above.
+  const truth = { 'chi.A': 0.2, 'chi.B': 100 };
+  const NBs = [100, 300, 1000];
+  const systems = NBs.map((NB) => ({ fixed: { NB }, data: [criticalPoint(floryHugginsFamily, { NA: 1, NB, ...truth }, false)] }));
+  const spec: ParameterSpec[] = [{ name: 'NA', value: 1, free: false }, { name: 'chi.A', free: true }, { name: 'chi.B', free: true }];
+  it('chi.A, chi.B from the critical temperatures of three chain lengths', () => {
+    const fit = fitSystems(floryHugginsFamily, spec, systems);
+    const Tref = systems.reduce((s, sys) => s + (sys.data[0] as { Tc: number }).Tc, 0) / 3;
+    for (const name of ['chi.A', 'chi.B'] as const) {
+      expect(Math.abs(fit.values[name] - truth[name]) / Math.max(Math.abs(truth[name]), parameterUnit(name, Tref)), name).toBeLessThan(1e-7);
+    }
+    expect(fit.models.map((m) => m.key)).toEqual(NBs.map((NB) => buildModel(floryHugginsFamily, { ...fit.values, NB }).key));
+    expect(fit.rows.map((r) => r.system)).toEqual([0, 1, 2]);
+    for (const row of fit.rows) expect(Math.abs(row.residual)).toBeLessThan(1e-7);
+  });
+  it('a parameter both free and fixed for one system, or unknown to the family', () => {
+    expect(reason(() => fitSystems(floryHugginsFamily, spec, [{ fixed: { NB: 100, 'chi.A': 0.1 }, data: systems[0].data }]))).toMatch(/^input: system 1: chi\.A is free/);
+    expect(reason(() => fitSystems(floryHugginsFamily, spec, [systems[0], { fixed: { NC: 3 }, data: systems[1].data }]))).toMatch(/^input: system 2: "NC" is not a parameter of the flory-huggins model/);
+  });
 });
 
 describe('data that cannot determine the parameters: a named failure, never a number', () => {

@@ -41,9 +41,9 @@ describe('default starting values put a gap near the data\'s temperature', () =>
   for (const [family, spec] of [
     [regularFamily, [{ name: 'omega', free: true }]],
     [floryHugginsFamily, [{ name: 'NA', value: 1, free: false }, { name: 'NB', value: 200, free: false }, { name: 'chi.A', free: true }, { name: 'chi.B', free: true }]],
-    [nrtlFamily, [{ name: 'a12', free: true }, { name: 'b12', free: true }, { name: 'a21', free: true }, { name: 'b21', free: true }, { name: 'alpha', value: 0.3, free: false }]],
+    ...[0.2, 0.3, 0.47].map((alpha) => [nrtlFamily, [{ name: 'a12', free: true }, { name: 'b12', free: true }, { name: 'a21', free: true }, { name: 'b21', free: true }, { name: 'alpha', value: alpha, free: false }]] as const),
   ] as const) {
-    it(family.name, () => {
+    it(`${family.name}${family === nrtlFamily ? `, alpha = ${(spec.find((p) => p.name === 'alpha') as { value: number }).value}` : ''}`, () => {
       const Tref = 400;
       const model = buildModel(family, startingValues(spec, Tref));
       const points = criticalPoints(model);

@@ -128,6 +128,13 @@ export function fitSystems(family: ModelFamily, parameters: readonly ParameterSp
     const r = e.residuals(models[k], true);
     return e.rows.map((row, i) => ({ ...row, system: k, residual: r[i] }));
   });
+  // The answer must be the minimum of what is reported: a sum of squares from the verified, freshly
+  // solved residuals above that of the iterations (beyond the solvers' noise, ~1e-12 relative, and
+  // 1e-12 per row absolute for exact fits) means the iterations followed a spurious feature.
+  const Sfresh = rows.reduce((a, row) => a + (row.residual / row.sigma) ** 2, 0);
+  if (!(Sfresh <= solution.S * (1 + 1e-6) + 1e-12 * rows.length)) {
+    fail('convergence', `the fit followed a feature of the model that the global check does not confirm (sum of squares ${solution.S.toPrecision(4)} while tracked, ${Sfresh.toPrecision(4)} from the global solution); give starting values closer to the data`);
+  }
   const n = rows.length, p = free.length, dof = n - p;
   const absolute = options.absolute === true;
   const variance = absolute ? 1 : dof > 0 ? solution.S / dof : NaN;
@@ -234,7 +241,9 @@ function start(
     if (!Number.isFinite(s) || !verify) return s;
     try {
       verify(t);
-      return s;
+      // verify may have moved a track from a spurious point to the global one: the sum of squares
+      // the candidate really has is the one from there
+      return S(t);
     } catch (e) {
       if (e instanceof MixgapError) return Infinity;
       throw e;

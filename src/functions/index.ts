@@ -2,3 +2,4 @@
 export * from './functions';
 export * from './fitting';
 export * from './ternary';
+export * from './extraction';

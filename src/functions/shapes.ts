@@ -10,6 +10,7 @@
  *   TSPLIT       3 (empty rows after the last phase)                4
  *   TPLAIT       1                                                  3
  *   TTRIANGLE    3                                                  3
+ *   TCASCADE     2 (raffinate, extract)                             5
  * Every other function: one cell.
  */
 export type LiteralArg = number | string | boolean | undefined;
@@ -49,6 +50,7 @@ const rules: Record<string, (args: LiteralArg[]) => Shape> = {
   TSPLIT: () => ({ rows: 3, cols: 4 }),
   TPLAIT: () => ({ rows: 1, cols: 3 }),
   TTRIANGLE: () => ({ rows: 3, cols: 3 }),
+  TCASCADE: () => ({ rows: 2, cols: 5 }),
 };
 
 /** Rows and columns of a function's spilled result, or why it cannot be known from the formula text. */

@@ -20,6 +20,7 @@ import os from 'os';
 import path from 'path';
 import JSZip from 'jszip';
 import { calcWorkbook } from '../src/hosts/calc';
+import { ternaryBench } from './ternary';
 
 const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)];
 const fmt = (us: number) => (us < 1000 ? `${us.toFixed(2)} µs` : `${(us / 1000).toFixed(2)} ms`);
@@ -69,6 +70,7 @@ const models: Array<[string, BinaryModel, number, number]> = [
 if (process.argv[2] === 'memory') memory();
 else if (process.argv[2] === 'startup') startup();
 else if (process.argv[2] === 'workbooks') void workbookSection();
+else if (process.argv[2] === 'ternary') ternaryBench(report); // this part alone: node dist/node/bench.js ternary
 else if (process.argv[2] === 'sweep') sweepAgainstFloor(); // this part alone: node dist/node/bench.js sweep
 else main().then(startup).catch((e) => { console.error(e); process.exit(1); });
 
@@ -99,6 +101,7 @@ const tie50 = Array.from({ length: 50 }, (_, i) => 500 + 7.5 * i).map((T) => {
 report('fit 3 Redlich–Kister terms with slopes to 50 tie-lines (core, 3 weighting passes)', fmt(whole(() => fitTieLines(tie50, [true, true, true]))), 'target < 5 ms');
 const tie50Rows = tie50.map((t) => [t.T, t.xLow, t.xHigh]);
 report('FITTIELINES cell function, same 50 tie-lines', fmt(whole(() => fitCells.fitTieLines(tie50Rows, 3, [[true]]))));
+ternaryBench(report);
 
 
 // Memory is measured in a fresh process, so that nothing above inflates it.

@@ -287,8 +287,9 @@ export const MAX_STAGES = 50;
  *   N* = (N - 1) + ln((1 - r_{N-1}) / (1 - target)) / ln((1 - r_{N-1}) / (1 - r_N)),
  * exact for a Kremser cascade at large N, where 1 - r_N falls by the extraction factor per stage.
  * At a whole count's own recovery it gives that count. Fails with 'none', naming the recovery
- * reached, when maxStages stages fall short or the recovery stops rising (a pinch: more stages do
- * not help at this solvent ratio); 'range' for a target outside (0, 1).
+ * reached, when maxStages stages fall short, or the recovery stops rising or levels off below the
+ * target (a pinch: the gains per stage fall geometrically and twice what they can still add falls
+ * short; more stages do not help at this solvent ratio); 'range' for a target outside (0, 1).
  */
 export function stagesFor(model: TernaryModel, T: number, feed: Stream, solvent: Stream, solute: 0 | 1 | 2, target: number, maxStages = MAX_STAGES): { stages: number; recoveries: number[] } {
   if (!(target > 0 && target < 1)) fail('range', `the target recovery must lie strictly between 0 and 1 (got ${target})`);
@@ -304,6 +305,15 @@ export function stagesFor(model: TernaryModel, T: number, feed: Stream, solvent:
     }
     if (N > 1 && !(r - before > 1e-12)) {
       fail('none', msg`the cascade cannot reach a recovery of ${target}: it reaches ${r} with ${N} stages and more stages no longer raise it (a pinch at this solvent ratio and T = ${kelvin(T)}): use more solvent`);
+    }
+    // a pinch: the gains per stage fall geometrically (ratio q, steady to 5 %), so the recovery
+    // levels off near r + gain q / (1 - q); stop when twice the gain still to come falls short
+    if (N >= 4) {
+      const gain = r - before, q = gain / (before - recoveries[N - 2]), q0 = (before - recoveries[N - 2]) / (recoveries[N - 2] - recoveries[N - 3]);
+      const rest = (gain * q) / (1 - q);
+      if (q > 0 && q < 0.95 && Math.abs(q - q0) < 0.05 * q && r + 2 * rest < target) {
+        fail('none', msg`the cascade cannot reach a recovery of ${target}: it reaches ${r} with ${N} stages and levels off near ${r + rest} (a pinch at this solvent ratio and T = ${kelvin(T)}): use more solvent`);
+      }
     }
   }
   fail('none', msg`the cascade cannot reach a recovery of ${target} with up to ${maxStages} stages: it reaches ${recoveries[maxStages]} (at T = ${kelvin(T)}): use more solvent or allow more stages`);

@@ -124,9 +124,9 @@ const DIFF_STEP = 1e-7;
  *   E_k - phi(m_k) = 0,  R_k - (m_k - phi(m_k)) = 0,   k = 1 ... N,
  * phi(m) the extract of the split of m (./split.ts). Newton's method: the 3 x 3 derivative of each
  * phi by one-sided differences (three extra splits per stage), the 6N x 6N system solved by
- * Gaussian elimination with partial pivoting. A flow that the step lowers is multiplied by
- * exp(step / flow) (the same to first order, never negative, so a solute flow can fall by decades
- * in one step), one that it raises is added to; the step is halved until the residual falls. The
+ * Gaussian elimination with partial pivoting. A flow falls by at most a factor 1e-4 per step
+ * (never to 0 or below, yet a solute flow can fall by decades in a few steps); the step is
+ * halved until the residual falls. The
  * derivatives are kept (chord steps) while the residual falls a hundredfold per step. Each split
  * starts from that stage's last tie-line (Newton only, `splitFrom`), from scratch (`splitFeed`)
  * where that fails. Converged (residual per component at most CASCADE_TOL of its inflow), the last
@@ -230,7 +230,7 @@ export function counterCurrent(model: TernaryModel, T: number, feed: Stream, sol
     let t = 1, next: ReturnType<typeof evaluate> | undefined, Xnext = X;
     for (let tries = 0; tries < 30; tries++, t /= 2) {
       Xnext = new Float64Array(n);
-      for (let i = 0; i < n; i++) Xnext[i] = delta[i] >= 0 ? X[i] + t * delta[i] : X[i] * Math.exp((t * delta[i]) / X[i]);
+      for (let i = 0; i < n; i++) Xnext[i] = Math.max(X[i] + t * delta[i], 1e-4 * X[i]);
       try {
         const trial = evaluate(Xnext, false);
         if (trial.err < cur.err) { next = trial; break; }

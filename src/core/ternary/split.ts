@@ -351,6 +351,21 @@ function newton(iso: TernaryIsotherm, start: TernaryPoint[], z: TernaryPoint): T
   return out;
 }
 
+/**
+ * Whether (a, b, c) lies within r of one of the points: distance(p, q) < r, decided by the squared
+ * sum (no allocation, no Math.hypot) except within a relative 1e-12 of r, where Math.hypot decides
+ * as `distance` does.
+ */
+function nearAny(points: readonly TernaryPoint[], a: number, b: number, c: number, r: number): boolean {
+  const r2 = r * r;
+  for (const q of points) {
+    const dA = a - q.xA, dB = b - q.xB, dC = c - q.xC, s2 = dA * dA + dB * dB + dC * dC;
+    if (s2 < r2 * (1 - 1e-12)) return true;
+    if (s2 <= r2 * (1 + 1e-12) && Math.hypot(dA, dB, dC) < r) return true;
+  }
+  return false;
+}
+
 function distance(p: TernaryPoint, q: TernaryPoint): number {
   return Math.hypot(p.xA - q.xA, p.xB - q.xB, p.xC - q.xC);
 }
@@ -435,10 +450,10 @@ function cutOf(iso: TernaryIsotherm, s: Samples, m: readonly number[], phases: T
   let worst: { p: TernaryPoint; D: number } | undefined;
   for (let k = 0; k < s.n; k++) {
     const D = s.g[k] - (m[0] * s.xA[k] + m[1] * s.xB[k] + m[2] * s.xC[k]);
-    const p = { xA: s.xA[k], xB: s.xB[k], xC: s.xC[k] };
-    if (D < -tol && (!worst || D < worst.D)) worst = { p, D };
-    if (phases.some((q) => distance(p, q) < MERGE)) continue;
-    if (lowest.length < 6 || D < lowest[lowest.length - 1].D) {
+    if (D < -tol && (!worst || D < worst.D)) worst = { p: { xA: s.xA[k], xB: s.xB[k], xC: s.xC[k] }, D };
+    if (!(lowest.length < 6 || D < lowest[lowest.length - 1].D)) continue;
+    if (nearAny(phases, s.xA[k], s.xB[k], s.xC[k], MERGE)) continue;
+    {
       lowest.push({ k, D });
       lowest.sort((a, b) => a.D - b.D);
       if (lowest.length > 6) lowest.pop();

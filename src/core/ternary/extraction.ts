@@ -128,7 +128,8 @@ const DIFF_STEP = 1e-7;
  * (never to 0 or below, yet a solute flow can fall by decades in a few steps); the step is
  * halved until the residual falls. The
  * derivatives are kept (chord steps) while the residual falls a hundredfold per step. Each split
- * starts from that stage's last tie-line (Newton only, `splitFrom`), from scratch (`splitFeed`)
+ * starts from that stage's last tie-line (at first the single stage's; Newton only, `splitFrom`),
+ * from scratch (`splitFeed`)
  * where that fails. Converged (residual per component at most CASCADE_TOL of its inflow), the last
  * point is split again with every tie-line checked against the tangent plane; a stage that fails
  * is solved from scratch and the iteration goes on. First guess: every stage the single stage fed
@@ -150,7 +151,8 @@ export function counterCurrent(model: TernaryModel, T: number, feed: Stream, sol
   const e1 = flowsOf(one.extract), r1 = flowsOf(one.raffinate);
   for (let k = 0; k < N; k++) { X.set(e1, 6 * k); X.set(r1, 6 * k + 3); }
 
-  const warm: Array<StageResult | undefined> = Array(N).fill(undefined);
+  // every split starts from the single stage's tie-line until it has one of its own
+  const warm: Array<StageResult | undefined> = Array(N).fill(one);
   /** The split of the mixture with flows m, warm from `from`. */
   const stageOf = (m: ArrayLike<number>, from: StageResult | undefined, verify: boolean): StageResult => {
     const amount = m[0] + m[1] + m[2];

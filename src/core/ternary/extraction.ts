@@ -126,11 +126,9 @@ const DIFF_STEP = 1e-7;
  * phi by one-sided differences (three extra splits per stage), the 6N x 6N system solved by
  * Gaussian elimination with partial pivoting. A flow falls by at most a factor 1e-4 per step
  * (never to 0 or below, yet a solute flow can fall by decades in a few steps); the step is
- * halved until the residual falls. The
- * derivatives are kept (chord steps) while the residual falls a hundredfold per step. Each split
- * starts from that stage's last tie-line (at first the single stage's; Newton only, `splitFrom`),
- * from scratch (`splitFeed`)
- * where that fails. Converged (residual per component at most CASCADE_TOL of its inflow), the last
+ * halved until the residual falls. The derivatives are kept (chord steps) while the residual
+ * falls a hundredfold per step. Each split starts from that stage's last tie-line (at first the
+ * single stage's; Newton only, `splitFrom`), from scratch (`splitFeed`) where that fails. Converged (residual per component at most CASCADE_TOL of its inflow), the last
  * point is split again with every tie-line checked against the tangent plane; a stage that fails
  * is solved from scratch and the iteration goes on. First guess: every stage the single stage fed
  * with all the feed and solvent. Fails with 'none' when that stage, or a stage at the first guess,

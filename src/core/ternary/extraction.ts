@@ -100,7 +100,7 @@ export interface CounterCurrentResult {
   /** The extract leaving stage 1 and the raffinate leaving stage N. */
   extract: Stream;
   raffinate: Stream;
-  /** Passes over the stages the solve took (1 for one stage). */
+  /** Newton steps the solve took, the final checked pass included (1 for one stage). */
   sweeps: number;
 }
 

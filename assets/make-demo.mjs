@@ -209,8 +209,86 @@ function addFitSheet(workbook) {
   fit.getCell('A24').font = { italic: true };
 }
 
+
+// --- Extraction (three components) -------------------------------------------------------------
+// An invented extraction: "lumic acid" (B, the solute) taken out of an invented carrier "Corvane"
+// (A) by an invented solvent "Tessol" (C), Redlich–Kister, kJ/mol, °C. Every number is made up.
+// The ternary card sits in Extraction!A4:B12 (two columns, key | value), for the triangle picture too.
+function addExtractionSheet(workbook) {
+  const ws = workbook.addWorksheet('Extraction');
+  ws.getColumn(1).width = 30;
+  for (const c of [2, 3, 4, 5, 6, 7, 8, 9]) ws.getColumn(c).width = 14;
+  const put = (addr, value, fmt) => {
+    const c = ws.getCell(addr);
+    c.value = typeof value === 'string' && value.startsWith('=') ? { formula: value.slice(1) } : value;
+    if (fmt) c.numFmt = fmt;
+  };
+  const card = 'Extraction!$A$4:$B$12', z = '0.000000', amt = '0.000';
+  put('A1', 'Extracting an invented solute, lumic acid, from an invented carrier, Corvane, with an invented solvent, Tessol (all numbers invented)');
+  ws.getCell('A1').font = bold;
+  put('A2', 'Caution: hot or flammable solvents are designed and run under your local codes, standards and licensed engineering practice; model tie-lines are no substitute for measured ones.');
+  ws.getCell('A2').font = { italic: true };
+  put('A3', 'ternary card (key | value), read by every formula here');
+  ws.getCell('A3').font = bold;
+  [
+    ['model', 'rk'], ['AB.L0', 3.2], ['AC.L0', 8.8], ['BC.L0', 0.6], ['energy', 'kJ/mol'], ['temperature', '°C'],
+    ['name A', 'Corvane'], ['name B', 'lumic acid'], ['name C', 'Tessol'],
+  ].forEach(([k, v], i) => { put(`A${4 + i}`, k); put(`B${4 + i}`, v); });
+  put('D3', 'inputs'); ws.getCell('D3').font = bold;
+  put('D4', 'temperature (°C)'); put('E4', 30);
+  put('D5', 'feed (mol)'); put('E5', 100);
+  put('D6', 'feed x_A, x_B, x_C'); put('E6', 0.85); put('F6', 0.15); put('G6', 0);
+  put('D7', 'solvent x_A, x_B, x_C'); put('E7', 0); put('F7', 0); put('G7', 1);
+  put('D8', 'solvent per cross-current stage (mol)'); put('E8', 20);
+  put('D9', 'solvent-to-feed ratio (all solvent)'); put('E9', 0.6);
+  put('D10', 'target recovery of lumic acid'); put('E10', 0.99);
+  put('D11', 'feed and all solvent (mol)'); put('E11', '=E5'); put('F11', '=E5*E9');
+
+  // one stage: all the solvent at once
+  put('A14', 'One stage: feed + all the solvent, mixed and split (TSPLIT)'); ws.getCell('A14').font = bold;
+  ['mixture (mol)', 'z_B', 'z_C'].forEach((h, i) => put(`${'ABC'[i]}15`, h));
+  put('A16', '=E5*(1+E9)', amt); put('B16', '=(E5*F6+E5*E9*F7)/A16', z); put('C16', '=(E5*G6+E5*E9*G7)/A16', z);
+  ['x_A', 'x_B', 'x_C', 'fraction'].forEach((h, i) => put(`${'EFGH'[i]}15`, h));
+  put('E16', `=MIXGAP.TSPLIT(B16, C16, E4, ${card})`, z);
+  put('D16', 'raffinate'); put('D17', 'extract (richer in Tessol)');
+  put('A18', 'recovery, one stage'); put('B18', '=A16*H17*F17/(E5*F6)', z);
+
+  // three cross-current stages: the raffinate (phase 1, the Tessol-poor one) meets fresh solvent
+  put('A20', 'Three cross-current stages: each raffinate meets fresh solvent (chained TSPLIT cells)'); ws.getCell('A20').font = bold;
+  ['raffinate in (mol)', 'x_A', 'x_B', 'x_C', 'solvent (mol)', 'mixture (mol)', 'z_B', 'z_C'].forEach((h, i) => put(`${'ABCDEFGH'[i]}21`, h));
+  for (let k = 0; k < 3; k++) {
+    const r = 22 + 4 * k;
+    if (k === 0) { put(`A${r}`, '=E5', amt); put(`B${r}`, '=E6', z); put(`C${r}`, '=F6', z); put(`D${r}`, '=G6', z); }
+    else {
+      put(`A${r}`, `=F${r - 4}*D${r - 3}`, amt);
+      put(`B${r}`, `=A${r - 3}`, z); put(`C${r}`, `=B${r - 3}`, z); put(`D${r}`, `=C${r - 3}`, z);
+    }
+    put(`E${r}`, '=$E$8', amt);
+    put(`F${r}`, `=A${r}+E${r}`, amt);
+    put(`G${r}`, `=(A${r}*C${r}+E${r}*$F$7)/F${r}`, z);
+    put(`H${r}`, `=(A${r}*D${r}+E${r}*$G$7)/F${r}`, z);
+    put(`A${r + 1}`, `=MIXGAP.TSPLIT(G${r}, H${r}, $E$4, ${card})`, z);
+    put(`I${r + 1}`, `stage ${k + 1}: raffinate (x_A, x_B, x_C, fraction)`);
+    put(`I${r + 2}`, `stage ${k + 1}: extract`);
+  }
+  put('A35', 'recovery, three cross-current stages'); put('B35', '=1-F30*D31*B31/(E5*F6)', z);
+
+  // counter-current: TCASCADE, recovery against stage count, TSTAGES
+  put('A37', 'Counter-current cascade with the same total solvent (TCASCADE, 3 stages)'); ws.getCell('A37').font = bold;
+  ['x_A', 'x_B', 'x_C', 'amount (mol)', 'share of lumic acid'].forEach((h, i) => put(`${'BCDEF'[i]}38`, h));
+  put('A39', 'final raffinate'); put('A40', 'final extract (its share: the recovery)');
+  put('B39', `=MIXGAP.TCASCADE(E6:G6, E7:G7, E11:F11, 3, "lumic acid", E4, ${card})`, z);
+  put('A42', 'stages'); put('B42', 'recovery (TRECOVERY)'); ws.getRow(42).font = bold;
+  for (let N = 1; N <= 8; N++) {
+    put(`A${42 + N}`, N);
+    put(`B${42 + N}`, `=MIXGAP.TRECOVERY($E$6:$G$6, $E$7:$G$7, $E$9, A${42 + N}, "lumic acid", $E$4, ${card})`, z);
+  }
+  put('A52', 'stages for the target recovery (TSTAGES)'); put('B52', `=MIXGAP.TSTAGES(E10, E6:G6, E7:G7, E9, "lumic acid", E4, ${card})`, '0.00');
+}
+
 addFitSheet(wb);
 uncertaintySheet(wb);
+addExtractionSheet(wb);
 
 await wb.xlsx.writeFile(target);
 console.log(`wrote ${path.relative(process.cwd(), target)}`);

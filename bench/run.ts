@@ -23,6 +23,7 @@ import { calcWorkbook } from '../src/hosts/calc';
 import { tbinodalBench } from './tbinodal';
 import { uncertaintySection } from './uncertainty';
 import { fitSection } from './fit';
+import { ternaryBench } from './ternary';
 
 const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)];
 const fmt = (us: number) => (us < 1000 ? `${us.toFixed(2)} µs` : `${(us / 1000).toFixed(2)} ms`);
@@ -72,6 +73,7 @@ const models: Array<[string, BinaryModel, number, number]> = [
 if (process.argv[2] === 'memory') memory();
 else if (process.argv[2] === 'startup') startup();
 else if (process.argv[2] === 'workbooks') void workbookSection();
+else if (process.argv[2] === 'ternary') ternaryBench(report); // this part alone: node dist/node/bench.js ternary
 else if (process.argv[2] === 'sweep') sweepAgainstFloor(); // this part alone: node dist/node/bench.js sweep
 else if (process.argv[2] === 'uncertainty') uncertaintySection(report);
 else if (process.argv[2] === 'fit') fitSection(report); // node dist/node/bench.js fit
@@ -107,6 +109,7 @@ const tie50Rows = tie50.map((t) => [t.T, t.xLow, t.xHigh]);
 report('FITTIELINES cell function, same 50 tie-lines', fmt(whole(() => fitCells.fitTieLines(tie50Rows, 3, [[true]]))));
 tbinodalBench(report);
 fitSection(report);
+ternaryBench(report);
 
 
 // Memory is measured in a fresh process, so that nothing above inflates it.

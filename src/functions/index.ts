@@ -4,3 +4,4 @@ export * from './fitting';
 export * from './fitModel';
 export * from './ternary';
 export * from './uncertainty';
+export * from './extraction';

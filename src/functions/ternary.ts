@@ -244,7 +244,7 @@ const mu = new Float64Array(LOCAL_SIZE);
  * `cell` for a ternary function: reads the card, runs the body, and writes the temperatures and
  * energies of core failures in the card's units.
  */
-function tcell<R>(params: unknown, body: (sys: TernarySystem) => R): R {
+export function tcell<R>(params: unknown, body: (sys: TernarySystem) => R): R {
   return cell(() => {
     const sys = ternarySystem(params);
     try {
@@ -260,7 +260,7 @@ const row = (p: TernaryPoint) => [p.xA, p.xB, p.xC];
 /** The unit part of a ternary system, as the binary unit helpers read it. */
 const asUnits = (sys: TernarySystem) => ({ temperature: sys.temperature, energy: sys.energy }) as unknown as System;
 
-function tempIn(sys: TernarySystem, value: unknown): number {
+export function tempIn(sys: TernarySystem, value: unknown): number {
   return temperatureIn(asUnits(sys), value);
 }
 

@@ -91,6 +91,14 @@ function baseSamples() {
 
 let lastSamples: { key: string; T: number; s: Samples } | undefined;
 
+let lastIsotherm: { model: TernaryModel; T: number; iso: TernaryIsotherm } | undefined;
+
+/** model.at(T), the last one remembered (a cascade splits many feeds of one model at one T). */
+function isothermOf(model: TernaryModel, T: number): TernaryIsotherm {
+  if (!lastIsotherm || lastIsotherm.model !== model || lastIsotherm.T !== T) lastIsotherm = { model, T, iso: model.at(T) };
+  return lastIsotherm.iso;
+}
+
 /** g on the samples at T (the last model and T are remembered), with room for extra points. */
 function samplesAt(model: TernaryModel, iso: TernaryIsotherm): Samples {
   const b = baseSamples(), n = b.xA.length;
@@ -343,6 +351,21 @@ function newton(iso: TernaryIsotherm, start: TernaryPoint[], z: TernaryPoint): T
   return out;
 }
 
+/**
+ * Whether (a, b, c) lies within r of one of the points: distance(p, q) < r, decided by the squared
+ * sum (no allocation, no Math.hypot) except within a relative 1e-12 of r, where Math.hypot decides
+ * as `distance` does.
+ */
+function nearAny(points: readonly TernaryPoint[], a: number, b: number, c: number, r: number): boolean {
+  const r2 = r * r;
+  for (const q of points) {
+    const dA = a - q.xA, dB = b - q.xB, dC = c - q.xC, s2 = dA * dA + dB * dB + dC * dC;
+    if (s2 < r2 * (1 - 1e-12)) return true;
+    if (s2 <= r2 * (1 + 1e-12) && Math.hypot(dA, dB, dC) < r) return true;
+  }
+  return false;
+}
+
 function distance(p: TernaryPoint, q: TernaryPoint): number {
   return Math.hypot(p.xA - q.xA, p.xB - q.xB, p.xC - q.xC);
 }
@@ -427,10 +450,10 @@ function cutOf(iso: TernaryIsotherm, s: Samples, m: readonly number[], phases: T
   let worst: { p: TernaryPoint; D: number } | undefined;
   for (let k = 0; k < s.n; k++) {
     const D = s.g[k] - (m[0] * s.xA[k] + m[1] * s.xB[k] + m[2] * s.xC[k]);
-    const p = { xA: s.xA[k], xB: s.xB[k], xC: s.xC[k] };
-    if (D < -tol && (!worst || D < worst.D)) worst = { p, D };
-    if (phases.some((q) => distance(p, q) < MERGE)) continue;
-    if (lowest.length < 6 || D < lowest[lowest.length - 1].D) {
+    if (D < -tol && (!worst || D < worst.D)) worst = { p: { xA: s.xA[k], xB: s.xB[k], xC: s.xC[k] }, D };
+    if (!(lowest.length < 6 || D < lowest[lowest.length - 1].D)) continue;
+    if (nearAny(phases, s.xA[k], s.xB[k], s.xC[k], MERGE)) continue;
+    {
       lowest.push({ k, D });
       lowest.sort((a, b) => a.D - b.D);
       if (lowest.length > 6) lowest.pop();
@@ -473,7 +496,7 @@ export function splitFeed(model: TernaryModel, T: number, xA: number, xB: number
   checkComposition(xA, xB, xC, 'the feed');
   // fractions that sum to 1 within 1e-9 are scaled to sum to 1 (each keeps its relative precision)
   const sum = xA + xB + xC;
-  const iso = model.at(T), z: TernaryPoint = sum === 1 ? { xA, xB, xC } : { xA: xA / sum, xB: xB / sum, xC: xC / sum };
+  const iso = isothermOf(model, T), z: TernaryPoint = sum === 1 ? { xA, xB, xC } : { xA: xA / sum, xB: xB / sum, xC: xC / sum };
   const s = samplesAt(model, iso);
   addSample(s, iso, z);
   const one = new Float64Array(LOCAL_SIZE);
@@ -537,4 +560,30 @@ export function onEnvelope(model: TernaryModel, T: number, p: TernaryPoint): boo
   const iso = model.at(T), s = samplesAt(model, iso), o = new Float64Array(LOCAL_SIZE);
   iso.local(p.xA, p.xB, p.xC, o);
   return cutOf(iso, s, [o[MUA], o[MUB], o[MUC]], [p]) === undefined;
+}
+
+/**
+ * A split of z started from given phases (a warm start: the tie-line of a nearby feed, as a
+ * cascade's stages give from one sweep to the next): Newton from `start` only, without the
+ * sampled envelope. With `verify`, the answer must also pass splitFeed's tangent-plane check.
+ * Undefined when Newton fails, the feed does not lie between the phases, or (with `verify`) a
+ * composition lies below the plane: the caller then asks splitFeed. Converged phases are the same
+ * root splitFeed's Newton finds (to the last bits, not necessarily bit for bit).
+ */
+export function splitFrom(model: TernaryModel, T: number, z: TernaryPoint, start: readonly TernaryPoint[], verify: boolean): TernarySplit | undefined {
+  checkTemperature(T);
+  const sum = z.xA + z.xB + z.xC;
+  const feed = sum === 1 ? z : { xA: z.xA / sum, xB: z.xB / sum, xC: z.xC / sum };
+  const iso = isothermOf(model, T);
+  const phases = newton(iso, [...start], feed);
+  if (!phases) return undefined;
+  const fractions = fractionsOf(phases, feed);
+  if (!fractions || fractions.some((f) => !(f >= -FRACTION_SLACK))) return undefined;
+  const one = new Float64Array(LOCAL_SIZE);
+  iso.local(phases[0].xA, phases[0].xB, phases[0].xC, one);
+  const m = [one[MUA], one[MUB], one[MUC]];
+  if (verify && cutOf(iso, samplesAt(model, iso), m, phases)) return undefined;
+  const clipped = fractions.map((f) => Math.max(0, f));
+  const total = clipped.reduce((a, b) => a + b, 0);
+  return { T, ...order(phases, clipped.map((f) => f / total)), mu: [m[0], m[1], m[2]] };
 }

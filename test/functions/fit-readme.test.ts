@@ -7,7 +7,7 @@
 import { readFileSync } from 'fs';
 import path from 'path';
 import { describe, expect, it } from 'vitest';
-import { fitModel, fitResid, fitSummary, tCrit, xCrit } from '../../src/functions/index';
+import { fitModel, fitResid, fitSummary, gapLow, tCrit, uncertainty, xCrit } from '../../src/functions/index';
 
 const readme = readFileSync(path.join(__dirname, '..', '..', 'README.md'), 'utf8');
 const section = readme.slice(readme.indexOf('#### Worked example: cloud points of a blend'), readme.indexOf('#### Fitting functions (general)'));
@@ -63,13 +63,24 @@ describe('README: cloud points of a blend -> chi(T)', () => {
   });
 
   it('TCRIT and XCRIT of the fitted card', () => {
-    // The card without its u() and r() rows: the card reader learns those rows in a parallel change.
-    const card = fitModel(start, data, undefined, false) as unknown[][];
+    // the fitted card as spilled, u() and r() rows included
+    const card = fitModel(start, data) as any[][];
     shows(tCrit(card), /`=MIXGAP\.TCRIT\(M1:N24\)` → ([\d.]+) °C/.exec(section)![1]);
     const x = /`=MIXGAP\.XCRIT\(M1:N24\)` → ([\d.]+)/.exec(section)![1];
     shows(xCrit(card), x);
     // Flory, Principles of Polymer Chemistry (1953), ch. XIII: phi_c = 1/(1 + sqrt(NB/NA)) (volume
     // fraction of B); the critical search is good to ~1e-10 in composition
     expect(Math.abs(xCrit(card) - 1 / (1 + Math.sqrt(60 / 100)))).toBeLessThan(1e-9);
+  });
+
+  it('the uncertainties of Tc and of a boundary from the fitted card', () => {
+    const card = fitModel(start, data) as any[][];
+    const text = section.replace(/\s+/g, ' ');
+    shows(uncertainty('TCRIT', card), /`=MIXGAP\.UNCERTAINTY\("TCRIT", M1:N24\)` → ([\d.]+) °C/.exec(text)![1]);
+    const [, Tc, band] = /Tc = ([\d.]+) ± ([\d.]+) °C at k = 2/.exec(text)!;
+    shows(tCrit(card), Tc);
+    shows(2 * uncertainty('TCRIT', card), band);
+    shows(uncertainty('GAPLOW', 120 as any, card), /`=MIXGAP\.UNCERTAINTY\("GAPLOW", 120, M1:N24\)` → ([\d.]+)/.exec(text)![1]);
+    shows(gapLow(120, card), /beside GAPLOW's (\d\.\d+)/.exec(text)![1]);
   });
 });

@@ -1,6 +1,6 @@
 // `npm run demo`: computes the demo workbook (assets/demo.xlsx, an invented scenario) with
-// `mixgap calc` and draws its phase diagram with `mixgap diagram`, both into out/demo/, and the
-// composition triangle of a three-component card (assets/extraction-card.csv, invented).
+// `mixgap calc` and draws with `mixgap diagram`, all into out/demo/: the alloy's phase diagram, the
+// fitted blend's binodal with its uncertainty band, and the extraction card's composition triangle.
 // Needs the build (npm ci runs it).
 import { existsSync } from 'fs';
 import { createRequire } from 'module';
@@ -27,13 +27,18 @@ await mixgap('calc', workbook, '-o', out);
 await mixgap('diagram', workbook, '--range', 'Card!A1:B7',
   '--mark', 'grade L=Ageing!B4', '--mark', 'grade H=Ageing!B5',
   '--title', 'Avarite–Bexium (invented alloy for the Mixgap demo)', '-o', out);
-// a three-component card (invented extraction scenario) drawn as a composition triangle at 25 °C
-const extraction = path.relative(process.cwd(), path.join(root, 'assets', 'extraction-card.csv'));
-await mixgap('diagram', extraction, '--at', '25', '--feed', 'feed=0.4,0.1',
-  '--title', 'water – tarnol – quellic acid at 25 °C (invented, for the Mixgap demo)', '-o', out);
+// the fitted blend card of the Fit sheet (with its u() and r() rows): the binodal with its band
+await mixgap('diagram', workbook, '--range', 'Fit!M3:N26',
+  '--title', 'polyvarene–bexylene, fitted to invented cloud points (Mixgap demo)', '-o', path.join(out, 'fit'));
+// the three-component card of the Extraction sheet drawn as a composition triangle at 30 °C, with
+// the one-stage mixture of the feed and all the solvent marked
+await mixgap('diagram', workbook, '--range', 'Extraction!A4:B12', '--at', '30',
+  '--feed', 'feed + solvent=0.09375,0.375',
+  '--title', 'Corvane – lumic acid – Tessol at 30 °C (invented, for the Mixgap demo)', '-o', path.join(out, 'extraction'));
 
 console.log(`
 Demo done in ${((Date.now() - started) / 1000).toFixed(1)} s. Invented scenario, invented numbers. Open:
   ${path.join(out, 'demo.computed.xlsx')}   computed workbook (every formula with its value)
   ${path.join(out, 'demo.diagram.png')}     phase diagram (also .svg)
-  ${path.join(out, 'extraction-card.diagram.png')}   composition triangle of the extraction card (also .svg)`);
+  ${path.join(out, 'fit.png')}             the fitted blend's binodal with its ±2 standard-uncertainty band (also .svg)
+  ${path.join(out, 'extraction.png')}      composition triangle of the Extraction sheet's card (also .svg)`);

@@ -196,12 +196,22 @@ function addFitSheet(workbook) {
   fit.getCell('A13').font = bold;
   fit.getCell('A14').value = { formula: 'MIXGAP.FITSUMMARY($A$3:$C$10, $E$3:$I$10)' };
   fit.getCell('A16').value = 'critical temperature (°C)';
-  // The card without its u() and r() rows (4th argument FALSE) as params.
-  fit.getCell('B16').value = { formula: 'MIXGAP.TCRIT(MIXGAP.FITMODEL($A$3:$C$10, $E$3:$I$10, , FALSE))' };
+  // The fitted card as spilled in M3:N26, u() and r() rows included, as params.
+  fit.getCell('B16').value = { formula: 'MIXGAP.TCRIT($M$3:$N$26)' };
   fit.getCell('B16').numFmt = '0.00';
   fit.getCell('A17').value = 'critical phi of bexylene';
-  fit.getCell('B17').value = { formula: 'MIXGAP.XCRIT(MIXGAP.FITMODEL($A$3:$C$10, $E$3:$I$10, , FALSE))' };
+  fit.getCell('B17').value = { formula: 'MIXGAP.XCRIT($M$3:$N$26)' };
   fit.getCell('B17').numFmt = '0.0000';
+  fit.getCell('C16').value = '±';
+  fit.getCell('D16').value = { formula: '2*MIXGAP.UNCERTAINTY("TCRIT", $M$3:$N$26)' };
+  fit.getCell('D16').numFmt = '0.00';
+  fit.getCell('E16').value = '°C: twice the standard uncertainty of Tc from the scatter of the cloud points (k = 2)';
+  // the binodal with its band for a chart: T, low, low - 2u, low + 2u, high, high - 2u, high + 2u
+  fit.getCell('A27').value = 'binodal with its ±2u band (GAPBAND), for an XY chart';
+  fit.getCell('A27').font = bold;
+  ['T (°C)', 'low', 'low - 2u', 'low + 2u', 'high', 'high - 2u', 'high + 2u'].forEach((h, i) => { fit.getCell(28, 1 + i).value = h; });
+  header(fit.getRow(28));
+  fit.getCell('A29').value = { formula: 'MIXGAP.GAPBAND(80, 161, 28, $M$3:$N$26)' };
   fit.getCell('A19').value = 'covariance of chi.A, chi.B';
   fit.getCell('A19').font = bold;
   fit.getCell('A20').value = { formula: 'MIXGAP.FITCOV($A$3:$C$10, $E$3:$I$10, , 2)' };

@@ -232,7 +232,7 @@ async function diagramAction(card: string, opts: DiagramOptions, command: Comman
 /** The `mixgap` program with its subcommands. */
 export function program(): Command {
   const mixgap = new Command('mixgap')
-    .description('Miscibility gaps of binary solutions, as spreadsheet cell functions, from the command line.')
+    .description('Miscibility gaps of binary and three-component solutions, as spreadsheet cell functions, from the command line.')
     .version(pkg.version, '-V, --version', 'print the version of Mixgap')
     .exitOverride()
     .showHelpAfterError();

@@ -360,7 +360,7 @@ export async function triangleAction(
   await write(`${base}.png`, async (tmp) => writeFileSync(tmp, renderPng(svg)));
   const n = (k: number, what: string) => `${k} ${what}${k === 1 ? '' : 's'}`;
   process.stdout.write(`mixgap diagram: ${where}\n  ${data.card}\n  at ${data.T} ${data.temperatureUnit}: ${data.branches.length} binodal branch${data.branches.length === 1 ? '' : 'es'}, ${n(data.plaits.length, 'plait point')}, ${n(data.triangles.length, 'three-phase triangle')}, ${n(data.feeds.length, 'feed')}` +
-    `${data.cascade ? `, a counter-current cascade of ${n(data.cascade.stages.length, 'stage')} (recovery by TRECOVERY of the same arguments)` : ''}\n` +
+    `${data.cascade ? `, a counter-current cascade of ${n(data.cascade.stages.length, 'stage')}` : ''}\n` +
     `  ${base}.svg\n  ${base}.png\n`);
 }
 

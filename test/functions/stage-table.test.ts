@@ -123,7 +123,8 @@ describe('TSTAGETABLE through the embedded engine', () => {
   it('a stage count from a cell cannot size the spill: the error says to write it as a number', () => {
     const sheet = engine.getSheetId(engine.addSheet())!;
     engine.setCellContents({ sheet, row: 0, col: 0 }, [[3, `=MIXGAP.TSTAGETABLE({0.9,0,0.1}, {0,1,0}, 0.4, A1, "solute", ${T}, ${inline(RK)})`]]);
-    const v = engine.getCellValue({ sheet, row: 0, col: 1 }) as { message?: string };
+    const v = engine.getCellValue({ sheet, row: 0, col: 1 }) as { type?: string; message?: string };
+    expect(v.type).toBe('VALUE');
     expect(v.message).toMatch(/TSTAGETABLE: write the number of stages \(4th argument\) as a number in the formula/);
   });
 });

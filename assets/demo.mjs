@@ -31,9 +31,12 @@ await mixgap('diagram', workbook, '--range', 'Card!A1:B7',
 await mixgap('diagram', workbook, '--range', 'Fit!M3:N26',
   '--title', 'polyvarene–bexylene, fitted to invented cloud points (Mixgap demo)', '-o', path.join(out, 'fit'));
 // the three-component card of the Extraction sheet drawn as a composition triangle at 30 °C, with
-// the one-stage mixture of the feed and all the solvent marked
+// the one-stage mixture of the feed and all the solvent marked, and the sheet's counter-current
+// cascade (TCASCADE in Extraction!B39: feed 0.85/0.15/0, pure Tessol, 0.6 mol per mole of feed,
+// 3 stages) stage by stage
 await mixgap('diagram', workbook, '--range', 'Extraction!A4:B12', '--at', '30',
   '--feed', 'feed + solvent=0.09375,0.375',
+  '--cascade', 'feed=0.15,0; solvent=0,1; ratio=0.6; stages=3; solute=lumic acid',
   '--title', 'Corvane – lumic acid – Tessol at 30 °C (invented, for the Mixgap demo)', '-o', path.join(out, 'extraction'));
 
 console.log(`
@@ -41,4 +44,4 @@ Demo done in ${((Date.now() - started) / 1000).toFixed(1)} s. Invented scenario,
   ${path.join(out, 'demo.computed.xlsx')}   computed workbook (every formula with its value)
   ${path.join(out, 'demo.diagram.png')}     phase diagram (also .svg)
   ${path.join(out, 'fit.png')}             the fitted blend's binodal with its ±2 standard-uncertainty band (also .svg)
-  ${path.join(out, 'extraction.png')}      composition triangle of the Extraction sheet's card (also .svg)`);
+  ${path.join(out, 'extraction.png')}      composition triangle of the Extraction sheet's card with its 3-stage cascade (also .svg)`);

@@ -296,9 +296,27 @@ function addExtractionSheet(workbook) {
   put('A52', 'stages for the target recovery (TSTAGES)'); put('B52', `=MIXGAP.TSTAGES(E10, E6:G6, E7:G7, E9, "lumic acid", E4, ${card})`, '0.00');
 }
 
+// The Extraction sheet's counter-current cascade stage by stage (TSTAGETABLE), below its TSTAGES
+// row: the numbers the demo's triangle picture draws (`mixgap diagram ... --cascade`).
+function addStageTable(workbook) {
+  const ws = workbook.getWorksheet('Extraction');
+  const put = (addr, value, fmt) => {
+    const c = ws.getCell(addr);
+    c.value = typeof value === 'string' && value.startsWith('=') ? { formula: value.slice(1) } : value;
+    if (fmt) c.numFmt = fmt;
+  };
+  put('A54', 'The same cascade stage by stage (TSTAGETABLE): the streams leaving each stage'); ws.getCell('A54').font = bold;
+  ['raffinate x_A', 'x_B', 'x_C', 'amount (mol)', 'extract x_A', 'x_B', 'x_C', 'amount (mol)'].forEach((h, i) => put(`${'BCDEFGHI'[i]}55`, h));
+  ws.getRow(55).font = bold;
+  for (let k = 1; k <= 3; k++) put(`A${55 + k}`, `stage ${k}`);
+  // the stage count is written as a number: the formula engine sizes the spill from it
+  put('B56', '=MIXGAP.TSTAGETABLE(E6:G6, E7:G7, E11:F11, 3, "lumic acid", E4, Extraction!$A$4:$B$12)', '0.000000');
+}
+
 addFitSheet(wb);
 uncertaintySheet(wb);
 addExtractionSheet(wb);
+addStageTable(wb);
 
 await wb.xlsx.writeFile(target);
 console.log(`wrote ${path.relative(process.cwd(), target)}`);

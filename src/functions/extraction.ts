@@ -5,7 +5,8 @@
  * the amounts are a solvent-to-feed ratio (one number: per mole of feed) or a range of two
  * numbers (feed, solvent: any one unit of amount, moles of sites for Flory–Huggins). The core is
  * src/core/ternary/extraction.ts. Cross-current stages need no function of their own: they are
- * TSPLIT cells chained by hand (README, "Extraction cascades").
+ * TSPLIT cells chained by hand (README, "Extraction cascades"). TSTAGETABLE spills every stage of
+ * a counter-current cascade.
  */
 import { cascade, MAX_STAGES, stagesFor, type Stream } from '../core/ternary/extraction';
 import type { TernaryPoint } from '../core/ternary/split';
@@ -44,6 +45,37 @@ export function tCascade(feed: any[][], solvent: any[][], amounts: any[][], N: n
     const extract = row(r.extract);
     extract[4] = r.recovery;
     return [row(r.raffinate), extract];
+  });
+}
+
+/** Columns of TSTAGETABLE's table: raffinate x_A, x_B, x_C, amount; extract x_A, x_B, x_C, amount. */
+export const TSTAGETABLE_COLS = 8;
+
+/**
+ * The stages of a counter-current cascade (TCASCADE's arguments), one row per stage 1 ... N: the
+ * raffinate and the extract leaving that stage, each x_A, x_B, x_C and its amount. The two
+ * streams of a row are the two phases of that stage's split (one tie-line); the raffinate of row
+ * N and the extract of row 1 are TCASCADE's final raffinate and extract. For a triangle picture
+ * of the cascade (raffinates and extracts stage by stage).
+ * @customfunction
+ * @helpurl https://localhost:3000/help/TSTAGETABLE.html
+ * @param feed Feed composition: a range of two cells (x_B, x_C) or three (x_A, x_B, x_C).
+ * @param solvent Solvent composition: a range of two or three cells, as the feed.
+ * @param amounts Solvent-to-feed ratio (one number, moles of solvent per mole of feed), or a range of two: feed and solvent amounts.
+ * @param N Number of equilibrium stages (whole number, 1 to 100); the table has N rows.
+ * @param solute The solute: "A", "B", "C" or the card's component name.
+ * @param T Temperature (kelvin, or the card's temperature unit).
+ * @param params Ternary parameter card (key/value range).
+ * @returns N x 8 table: per stage, the raffinate's x_A, x_B, x_C, amount, then the extract's x_A, x_B, x_C, amount.
+ */
+export function tStageTable(feed: any[][], solvent: any[][], amounts: any[][], N: number, solute: string, T: number, params: any[][]): any[][] {
+  return tcell(params, (sys) => {
+    const s = streams(feed, solvent, amounts);
+    const n = stageCount(N);
+    const i = ternaryComponent(solute, sys, 'solute');
+    const r = cascade(sys.model, tempIn(sys, T), s.feed, s.solvent, n, i);
+    const cells = (st: Stream) => [st.x.xA, st.x.xB, st.x.xC, st.amount];
+    return r.stages.map((st) => [...cells(st.raffinate), ...cells(st.extract)]);
   });
 }
 

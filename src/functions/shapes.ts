@@ -16,6 +16,7 @@
  *   TBINODAL     3rd argument, a whole number 3 to 10000            6
  *   GAPBAND      3rd argument, a whole number 2 to 10000            7
  *   TCASCADE     2 (raffinate, extract)                             5
+ *   TSTAGETABLE  4th argument (stages), a whole number 1 to 100      8
  * Every other function: one cell.
  */
 export type LiteralArg = number | string | boolean | undefined;
@@ -75,6 +76,7 @@ const rules: Record<string, (args: LiteralArg[]) => Shape> = {
   TBINODAL: (args) => counted(args, 'TBINODAL', 2, 'rows', TBINODAL_ROWS.min, TBINODAL_ROWS.max, '=MIXGAP.TBINODAL(298.15, B2:C9, 101)', 6),
   GAPBAND: (args) => counted(args, 'GAPBAND', 2, 'rows', GAPTABLE_ROWS.min, GAPTABLE_ROWS.max, '=MIXGAP.GAPBAND(300, 1200, 51, B2:D6)', 7),
   TCASCADE: () => ({ rows: 2, cols: 5 }),
+  TSTAGETABLE: (args) => counted(args, 'TSTAGETABLE', 3, 'stages', 1, 100, '=MIXGAP.TSTAGETABLE(E6:G6, E7:G7, 0.6, 3, "lumic acid", 30, A4:B12)', 8),
 };
 
 /** Rows and columns of a function's spilled result, or why it cannot be known from the formula text. */

@@ -89,7 +89,9 @@ or a range of an .xlsx workbook (--range A1:B8 with --sheet NAME, or --range NAM
 workbook is evaluated first, so the card and the marks may be formulas.
 Every point comes from the cell functions (GAPTABLE, TCRIT, XCRIT, CRITKIND, CHECKCARD).
 A three-component card (keys such as AB.L0) is drawn as a composition triangle at --at T, with
-TBINODAL, TPLAIT, TTRIANGLE and the feeds of --feed xB,xC split by TSPLIT.
+TBINODAL, TPLAIT, TTRIANGLE, the feeds of --feed xB,xC split by TSPLIT, and the stages of
+--cascade 'feed=xB,xC; solvent=xB,xC; ratio=S/F; stages=N; solute=NAME' from TSTAGETABLE
+(amounts=F,S instead of ratio=; raffinates R1..RN, extracts E1..EN and their tie-lines).
 
 Temperatures (--tmin, --tmax, the axis) are in the card's temperature unit, or in --temperature-unit.
 Default range: from half the lowest critical temperature (in kelvin) to 6 % above the highest.
@@ -181,7 +183,7 @@ async function calcAction(workbook: string, opts: CalcOptions): Promise<void> {
 
 interface DiagramOptions {
   sheet?: string; range?: string; tmin?: number; tmax?: number; temperatureUnit?: string;
-  rows?: number; mark: string[]; title?: string; output?: string; fullRange?: boolean; log?: string; at?: number; feed: string[];
+  rows?: number; mark: string[]; title?: string; output?: string; fullRange?: boolean; log?: string; at?: number; feed: string[]; cascade?: string;
 }
 
 /** `mixgap diagram`: OUT.svg and OUT.png of a card, and what they show. */
@@ -275,6 +277,7 @@ export function program(): Command {
     .option('--log <component>', 'logarithmic composition axis: B for x (a dilute branch near x = 0), A for 1 - x (near x = 1)')
     .option('--at <T>', 'a three-component card: the temperature of its triangle (card unit)', finiteNumber)
     .option('--feed <xB,xC>', 'a three-component card: a feed to mark with its phases, x_B,x_C or LABEL=x_B,x_C (repeatable)', collect, [])
+    .option('--cascade <spec>', "a three-component card: a counter-current cascade to draw stage by stage, 'feed=xB,xC; solvent=xB,xC; ratio=S/F; stages=N; solute=NAME'")
     .option('-o, --output <path>', 'OUT for OUT.svg and OUT.png, or a folder')
     .addHelpText('after', DIAGRAM_HELP)
     .action(diagramAction);

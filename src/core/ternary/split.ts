@@ -276,8 +276,12 @@ function residuals(iso: TernaryIsotherm, k: number, x: Float64Array, z: TernaryP
 /** Set when Newton ran a fraction below 1e-300 (not representable to full precision). */
 let underflow = false;
 
-/** Newton from the starting phases; the converged phases, or undefined. */
-function newton(iso: TernaryIsotherm, start: TernaryPoint[], z: TernaryPoint): TernaryPoint[] | undefined {
+/**
+ * Newton from the starting phases; the converged phases, or undefined. With `giveUp` (a warm start,
+ * whose caller has the sampled search to fall back on), a step that no halving makes lower the
+ * residual ends it at once, instead of being taken and retried up to MAX_NEWTON times.
+ */
+function newton(iso: TernaryIsotherm, start: TernaryPoint[], z: TernaryPoint, giveUp = false): TernaryPoint[] | undefined {
   const k = start.length, n = 2 * k;
   const u = new Float64Array(n);
   start.forEach((p, q) => toU(p, u, 2 * q));
@@ -317,7 +321,7 @@ function newton(iso: TernaryIsotherm, start: TernaryPoint[], z: TernaryPoint): T
       for (let q = 0; q < k; q++) fromU(uTry[2 * q], uTry[2 * q + 1], xTry, 3 * q);
       for (let i = 0; i < 3 * k; i++) if (!(xTry[i] > 1e-300)) underflow = true;
       newNorm = residuals(iso, k, xTry, z, r6);
-      if (Number.isFinite(newNorm) && (newNorm < norm || newNorm < 1e-13 || tries === 11)) { accepted = Number.isFinite(newNorm); break; }
+      if (Number.isFinite(newNorm) && (newNorm < norm || newNorm < 1e-13 || (tries === 11 && !giveUp))) { accepted = Number.isFinite(newNorm); break; }
       t /= 2;
     }
     if (!accepted) return undefined;
@@ -575,7 +579,7 @@ export function splitFrom(model: TernaryModel, T: number, z: TernaryPoint, start
   const sum = z.xA + z.xB + z.xC;
   const feed = sum === 1 ? z : { xA: z.xA / sum, xB: z.xB / sum, xC: z.xC / sum };
   const iso = isothermOf(model, T);
-  const phases = newton(iso, [...start], feed);
+  const phases = newton(iso, [...start], feed, true);
   if (!phases) return undefined;
   const fractions = fractionsOf(phases, feed);
   if (!fractions || fractions.some((f) => !(f >= -FRACTION_SLACK))) return undefined;

@@ -89,7 +89,7 @@ function baseSamples() {
   return base;
 }
 
-let lastSamples: { key: string; T: number; s: Samples } | undefined;
+let lastSamples: { key: string; T: number; s: Samples; ideal?: Float64Array } | undefined;
 
 let lastIsotherm: { model: TernaryModel; T: number; iso: TernaryIsotherm } | undefined;
 
@@ -99,15 +99,31 @@ function isothermOf(model: TernaryModel, T: number): TernaryIsotherm {
   return lastIsotherm.iso;
 }
 
-/** g on the samples at T (the last model and T are remembered), with room for extra points. */
+/**
+ * g on the samples at T (the last model and T are remembered), with room for extra points. At a
+ * new T of the same model the arrays are reused and, where the model splits g into a part that
+ * does not depend on T and the rest (`idealParts`, `gFromIdeal`: the same bits as `g`), only the
+ * rest is evaluated anew.
+ */
 function samplesAt(model: TernaryModel, iso: TernaryIsotherm): Samples {
   const b = baseSamples(), n = b.xA.length;
   if (!lastSamples || lastSamples.key !== model.key || lastSamples.T !== iso.T) {
-    const cap = n + MAX_EXTRA;
-    const s: Samples = { n, xA: new Float64Array(cap), xB: new Float64Array(cap), xC: new Float64Array(cap), g: new Float64Array(cap) };
-    s.xA.set(b.xA); s.xB.set(b.xB); s.xC.set(b.xC);
-    for (let k = 0; k < n; k++) s.g[k] = iso.g(b.xA[k], b.xB[k], b.xC[k]);
-    lastSamples = { key: model.key, T: iso.T, s };
+    let s: Samples, ideal: Float64Array | undefined;
+    if (lastSamples && lastSamples.key === model.key) {
+      s = lastSamples.s; // its first n points are the base samples (extra points go after them)
+      ideal = lastSamples.ideal;
+    } else {
+      const cap = n + MAX_EXTRA;
+      s = { n, xA: new Float64Array(cap), xB: new Float64Array(cap), xC: new Float64Array(cap), g: new Float64Array(cap) };
+      s.xA.set(b.xA); s.xB.set(b.xB); s.xC.set(b.xC);
+      if (iso.idealParts && iso.gFromIdeal) {
+        ideal = new Float64Array(n);
+        iso.idealParts(n, b.xA, b.xB, b.xC, ideal);
+      }
+    }
+    if (ideal && iso.gFromIdeal) iso.gFromIdeal(n, b.xA, b.xB, b.xC, ideal, s.g);
+    else for (let k = 0; k < n; k++) s.g[k] = iso.g(b.xA[k], b.xB[k], b.xC[k]);
+    lastSamples = { key: model.key, T: iso.T, s, ideal };
   }
   lastSamples.s.n = n;
   return lastSamples.s;
@@ -395,6 +411,8 @@ function fractionsOf(phases: TernaryPoint[], z: TernaryPoint): number[] | undefi
 // The check: the plane through the phases lies below g
 
 const dLoc = new Float64Array(LOCAL_SIZE), dx = new Float64Array(3);
+/** g and mu at the first phase of an answer (read at once into the plane m). */
+const one = new Float64Array(LOCAL_SIZE);
 
 /**
  * D(x) = g(x) - sum_i m_i x_i at its local minimum reached from p by Newton in u (a Gauss–Newton
@@ -503,7 +521,6 @@ export function splitFeed(model: TernaryModel, T: number, xA: number, xB: number
   const iso = isothermOf(model, T), z: TernaryPoint = sum === 1 ? { xA, xB, xC } : { xA: xA / sum, xB: xB / sum, xC: xC / sum };
   const s = samplesAt(model, iso);
   addSample(s, iso, z);
-  const one = new Float64Array(LOCAL_SIZE);
   underflow = false;
   for (let round = 0; round < 4; round++) {
     const cands = candidates(s, lowerFace(s, z, iso.RT));
@@ -561,9 +578,9 @@ export function splitFeed(model: TernaryModel, T: number, xA: number, xB: number
  * checked as the split checks its answers: p is then on the lower convex envelope (stable).
  */
 export function onEnvelope(model: TernaryModel, T: number, p: TernaryPoint): boolean {
-  const iso = model.at(T), s = samplesAt(model, iso), o = new Float64Array(LOCAL_SIZE);
-  iso.local(p.xA, p.xB, p.xC, o);
-  return cutOf(iso, s, [o[MUA], o[MUB], o[MUC]], [p]) === undefined;
+  const iso = model.at(T), s = samplesAt(model, iso);
+  iso.local(p.xA, p.xB, p.xC, one);
+  return cutOf(iso, s, [one[MUA], one[MUB], one[MUC]], [p]) === undefined;
 }
 
 /**
@@ -583,7 +600,6 @@ export function splitFrom(model: TernaryModel, T: number, z: TernaryPoint, start
   if (!phases) return undefined;
   const fractions = fractionsOf(phases, feed);
   if (!fractions || fractions.some((f) => !(f >= -FRACTION_SLACK))) return undefined;
-  const one = new Float64Array(LOCAL_SIZE);
   iso.local(phases[0].xA, phases[0].xB, phases[0].xC, one);
   const m = [one[MUA], one[MUB], one[MUC]];
   if (verify && cutOf(iso, samplesAt(model, iso), m, phases)) return undefined;

@@ -341,8 +341,8 @@ function newton(iso: TernaryIsotherm, start: TernaryPoint[], z: TernaryPoint, gi
       t /= 2;
     }
     if (!accepted) return undefined;
-    u.set(uTry.subarray(0, n));
-    xs.set(xTry.subarray(0, 3 * k));
+    for (let i = 0; i < n; i++) u[i] = uTry[i];
+    for (let i = 0; i < 3 * k; i++) xs[i] = xTry[i];
     norm = newNorm;
     // converged: a full step below 1e-12 in every u (relative 1e-12 in every fraction), twice
     if (t === 1 && big * t < 1e-12 && norm < 1e-9) {
@@ -451,10 +451,13 @@ function localMinimum(iso: TernaryIsotherm, m: readonly number[], p: TernaryPoin
       fromU(uB + t * sB, uC + t * sC, xTry, 0);
       const Dn = Dat(xTry);
       if (Dn < D) {
-        uB += t * sB; uC += t * sC; D = Dn; dx.set(xTry.subarray(0, 3)); moved = true;
+        uB += t * sB; uC += t * sC; D = Dn; dx[0] = xTry[0]; dx[1] = xTry[1]; dx[2] = xTry[2]; moved = true;
         break;
       }
       t /= 2;
+      // a move this short would end the search anyway (below): at the minimum, where no step
+      // lowers D (rounding), stop halving here
+      if (t * len < 1e-10) break;
     }
     if (!moved || t * len < 1e-10) break;
   }

@@ -89,7 +89,7 @@ function baseSamples() {
   return base;
 }
 
-let lastSamples: { key: string; T: number; s: Samples; ideal?: Float64Array } | undefined;
+let lastSamples: { key: string; T: number; s: Samples; ideal?: Float64Array; excess?: { key: string; g: Float64Array } } | undefined;
 
 let lastIsotherm: { model: TernaryModel; T: number; iso: TernaryIsotherm } | undefined;
 
@@ -103,15 +103,16 @@ function isothermOf(model: TernaryModel, T: number): TernaryIsotherm {
  * g on the samples at T (the last model and T are remembered), with room for extra points. At a
  * new T of the same model the arrays are reused and, where the model splits g into a part that
  * does not depend on T and the rest (`idealParts`, `gFromIdeal`: the same bits as `g`), only the
- * rest is evaluated anew.
+ * rest is evaluated anew; where g_E itself is the same as at the last T (`excessKey`), only RT.
  */
 function samplesAt(model: TernaryModel, iso: TernaryIsotherm): Samples {
   const b = baseSamples(), n = b.xA.length;
   if (!lastSamples || lastSamples.key !== model.key || lastSamples.T !== iso.T) {
-    let s: Samples, ideal: Float64Array | undefined;
+    let s: Samples, ideal: Float64Array | undefined, excess: { key: string; g: Float64Array } | undefined;
     if (lastSamples && lastSamples.key === model.key) {
       s = lastSamples.s; // its first n points are the base samples (extra points go after them)
       ideal = lastSamples.ideal;
+      excess = lastSamples.excess;
     } else {
       const cap = n + MAX_EXTRA;
       s = { n, xA: new Float64Array(cap), xB: new Float64Array(cap), xC: new Float64Array(cap), g: new Float64Array(cap) };
@@ -121,9 +122,18 @@ function samplesAt(model: TernaryModel, iso: TernaryIsotherm): Samples {
         iso.idealParts(n, b.xA, b.xB, b.xC, ideal);
       }
     }
-    if (ideal && iso.gFromIdeal) iso.gFromIdeal(n, b.xA, b.xB, b.xC, ideal, s.g);
+    const eKey = iso.excessKey;
+    if (ideal && eKey !== undefined && iso.excessParts) {
+      // g_E the same at this T as at the last (its parameters do not depend on T): only RT changes
+      if (!excess || excess.key !== eKey) {
+        excess = { key: eKey, g: excess?.g ?? new Float64Array(n) };
+        iso.excessParts(n, b.xA, b.xB, b.xC, excess.g);
+      }
+      const RT = iso.RT, e = excess.g;
+      for (let k = 0; k < n; k++) s.g[k] = RT * ideal[k] + e[k];
+    } else if (ideal && iso.gFromIdeal) iso.gFromIdeal(n, b.xA, b.xB, b.xC, ideal, s.g);
     else for (let k = 0; k < n; k++) s.g[k] = iso.g(b.xA[k], b.xB[k], b.xC[k]);
-    lastSamples = { key: model.key, T: iso.T, s, ideal };
+    lastSamples = { key: model.key, T: iso.T, s, ideal, excess };
   }
   lastSamples.s.n = n;
   return lastSamples.s;

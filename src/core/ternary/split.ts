@@ -483,15 +483,20 @@ function cutOf(iso: TernaryIsotherm, s: Samples, m: readonly number[], phases: T
   const tol = 1e-10 * (iso.RT + Math.abs(m[0]) + Math.abs(m[1]) + Math.abs(m[2]));
   const lowest: Array<{ k: number; D: number }> = [];
   let worst: { p: TernaryPoint; D: number } | undefined;
-  for (let k = 0; k < s.n; k++) {
-    const D = s.g[k] - (m[0] * s.xA[k] + m[1] * s.xB[k] + m[2] * s.xC[k]);
-    if (D < -tol && (!worst || D < worst.D)) worst = { p: { xA: s.xA[k], xB: s.xB[k], xC: s.xC[k] }, D };
-    if (!(lowest.length < 6 || D < lowest[lowest.length - 1].D)) continue;
-    if (nearAny(phases, s.xA[k], s.xB[k], s.xC[k], MERGE)) continue;
+  // the arrays and the plane in locals: the loop's loads stay out of the calls it makes
+  const n = s.n, gs = s.g, xA = s.xA, xB = s.xB, xC = s.xC, mA = m[0], mB = m[1], mC = m[2];
+  // D of the sixth lowest kept (once six are kept)
+  let sixth = Infinity;
+  for (let k = 0; k < n; k++) {
+    const D = gs[k] - (mA * xA[k] + mB * xB[k] + mC * xC[k]);
+    if (D < -tol && (!worst || D < worst.D)) worst = { p: { xA: xA[k], xB: xB[k], xC: xC[k] }, D };
+    if (!(lowest.length < 6 || D < sixth)) continue;
+    if (nearAny(phases, xA[k], xB[k], xC[k], MERGE)) continue;
     {
       lowest.push({ k, D });
       lowest.sort((a, b) => a.D - b.D);
       if (lowest.length > 6) lowest.pop();
+      if (lowest.length === 6) sixth = lowest[5].D;
     }
   }
   if (worst) return worst.p;

@@ -128,7 +128,7 @@ const DIFF_STEP = 1e-7;
  * (never to 0 or below, yet a solute flow can fall by decades in a few steps); the step is
  * halved until the residual falls. The derivatives are kept (chord steps) while the residual
  * falls a hundredfold per step. Each split starts from that stage's last tie-line (at first the
- * single stage's; Newton only, `splitFrom`), from scratch (`splitFeed`) where that fails. Converged (residual per component at most CASCADE_TOL of its inflow), the last
+ * single stage's; Newton only, `splitFrom`), else from the stage before it in the same sweep, from scratch (`splitFeed`) where both fail. Converged (residual per component at most CASCADE_TOL of its inflow), the last
  * point is split again with every tie-line checked against the tangent plane; a stage that fails
  * is solved from scratch and the iteration goes on. First guess: every stage the single stage fed
  * with all the feed and solvent. Fails with 'none' when that stage, or a stage at the first guess,
@@ -151,12 +151,13 @@ export function counterCurrent(model: TernaryModel, T: number, feed: Stream, sol
 
   // every split starts from the single stage's tie-line until it has one of its own
   const warm: Array<StageResult | undefined> = Array(N).fill(one);
-  /** The split of the mixture with flows m, warm from `from`. */
-  const stageOf = (m: ArrayLike<number>, from: StageResult | undefined, verify: boolean): StageResult => {
+  /** The split of the mixture with flows m, warm from `from`, else from `other` (the stage before it in this sweep). */
+  const stageOf = (m: ArrayLike<number>, from: StageResult | undefined, verify: boolean, other?: StageResult): StageResult => {
     const amount = m[0] + m[1] + m[2];
     const x = { xA: m[0] / amount, xB: m[1] / amount, xC: m[2] / amount };
     checkComposition(x.xA, x.xB, x.xC, 'a stage mixture');
     let r = from ? splitFrom(model, T, x, [from.raffinate.x, from.extract.x], verify) : undefined;
+    if (!r && other && other !== from) r = splitFrom(model, T, x, [other.raffinate.x, other.extract.x], verify);
     r ??= splitFeed(model, T, x.xA, x.xB, x.xC);
     return assign({ amount, x }, r, T, solvent.x);
   };
@@ -169,7 +170,7 @@ export function counterCurrent(model: TernaryModel, T: number, feed: Stream, sol
     const stages: StageResult[] = [], r = new Float64Array(n), err = [0, 0, 0];
     for (let k = 0; k < N; k++) {
       mixOf(W, k);
-      const st = stageOf(m, warm[k] ?? stages[k - 1], verify);
+      const st = stageOf(m, warm[k] ?? stages[k - 1], verify, stages[k - 1]);
       stages.push(st);
       const e = flowsOf(st.extract), ra = flowsOf(st.raffinate);
       for (let c = 0; c < 3; c++) {

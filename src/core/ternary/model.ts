@@ -44,6 +44,21 @@ export interface TernaryIsotherm {
    * out[MUA], out[MUB], out[MUC] = mu_A, mu_B, mu_C.
    */
   local(xA: number, xB: number, xC: number, out: Float64Array): void;
+  /**
+   * Optional, for many points at once (the split's samples at each new T): the part of g/RT that
+   * does not depend on T, sum_i w_i x_i ln x_i, at the first n points into out.
+   */
+  idealParts?(n: number, xA: Float64Array, xB: Float64Array, xC: Float64Array, out: Float64Array): void;
+  /** Optional, with idealParts: g at the first n points from their ideal parts, the same bits as `g`. */
+  gFromIdeal?(n: number, xA: Float64Array, xB: Float64Array, xC: Float64Array, ideal: Float64Array, out: Float64Array): void;
+  /**
+   * Optional: the parameters of g_E at this T as text; two isotherms of one model with the same
+   * text have the same g_E (a Redlich–Kister card without T-dependent terms), which `excessParts`
+   * then gives once for both.
+   */
+  readonly excessKey?: string;
+  /** Optional, with excessKey: g_E at the first n points into out, so that RT * ideal + g_E is the same bits as `g`. */
+  excessParts?(n: number, xA: Float64Array, xB: Float64Array, xC: Float64Array, out: Float64Array): void;
 }
 
 /** x ln x, with the limit 0 at x = 0. */
@@ -81,6 +96,21 @@ export abstract class TernaryIsothermBase implements TernaryIsotherm {
 
   g(xA: number, xB: number, xC: number): number {
     return this.RT * (this.wA * xlnx(xA) + this.wB * xlnx(xB) + this.wC * xlnx(xC)) + this.excessG(xA, xB, xC);
+  }
+
+  idealParts(n: number, xA: Float64Array, xB: Float64Array, xC: Float64Array, out: Float64Array): void {
+    const wA = this.wA, wB = this.wB, wC = this.wC;
+    for (let k = 0; k < n; k++) out[k] = wA * xlnx(xA[k]) + wB * xlnx(xB[k]) + wC * xlnx(xC[k]);
+  }
+
+  gFromIdeal(n: number, xA: Float64Array, xB: Float64Array, xC: Float64Array, ideal: Float64Array, out: Float64Array): void {
+    // the operations of g in the same order: RT * (ideal part) + g_E
+    const RT = this.RT;
+    for (let k = 0; k < n; k++) out[k] = RT * ideal[k] + this.excessG(xA[k], xB[k], xC[k]);
+  }
+
+  excessParts(n: number, xA: Float64Array, xB: Float64Array, xC: Float64Array, out: Float64Array): void {
+    for (let k = 0; k < n; k++) out[k] = this.excessG(xA[k], xB[k], xC[k]);
   }
 
   local(xA: number, xB: number, xC: number, out: Float64Array): void {

@@ -83,6 +83,14 @@ class RedlichKisterTernaryIsotherm extends TernaryIsothermBase {
     this.pd[0] = P; this.pd[1] = P1; this.pd[2] = 2 * H2;
   }
 
+  private excessText: string | undefined;
+
+  /** The values of every L and M at this T (a card without .b and .c terms: the same at every T). */
+  get excessKey(): string {
+    this.excessText ??= [...this.LAB, '|', ...this.LAC, '|', ...this.LBC, '|', this.MA, this.MB, this.MC].join(',');
+    return this.excessText;
+  }
+
   protected excessG(xA: number, xB: number, xC: number): number {
     const f = RedlichKisterTernaryIsotherm.pair;
     return f(this.LAB, xA, xB) + f(this.LAC, xA, xC) + f(this.LBC, xB, xC)

@@ -89,7 +89,7 @@ function baseSamples() {
   return base;
 }
 
-let lastSamples: { key: string; T: number; s: Samples } | undefined;
+let lastSamples: { key: string; T: number; s: Samples; ideal?: Float64Array; excess?: { key: string; g: Float64Array } } | undefined;
 
 let lastIsotherm: { model: TernaryModel; T: number; iso: TernaryIsotherm } | undefined;
 
@@ -99,15 +99,41 @@ function isothermOf(model: TernaryModel, T: number): TernaryIsotherm {
   return lastIsotherm.iso;
 }
 
-/** g on the samples at T (the last model and T are remembered), with room for extra points. */
+/**
+ * g on the samples at T (the last model and T are remembered), with room for extra points. At a
+ * new T of the same model the arrays are reused and, where the model splits g into a part that
+ * does not depend on T and the rest (`idealParts`, `gFromIdeal`: the same bits as `g`), only the
+ * rest is evaluated anew; where g_E itself is the same as at the last T (`excessKey`), only RT.
+ */
 function samplesAt(model: TernaryModel, iso: TernaryIsotherm): Samples {
   const b = baseSamples(), n = b.xA.length;
   if (!lastSamples || lastSamples.key !== model.key || lastSamples.T !== iso.T) {
-    const cap = n + MAX_EXTRA;
-    const s: Samples = { n, xA: new Float64Array(cap), xB: new Float64Array(cap), xC: new Float64Array(cap), g: new Float64Array(cap) };
-    s.xA.set(b.xA); s.xB.set(b.xB); s.xC.set(b.xC);
-    for (let k = 0; k < n; k++) s.g[k] = iso.g(b.xA[k], b.xB[k], b.xC[k]);
-    lastSamples = { key: model.key, T: iso.T, s };
+    let s: Samples, ideal: Float64Array | undefined, excess: { key: string; g: Float64Array } | undefined;
+    if (lastSamples && lastSamples.key === model.key) {
+      s = lastSamples.s; // its first n points are the base samples (extra points go after them)
+      ideal = lastSamples.ideal;
+      excess = lastSamples.excess;
+    } else {
+      const cap = n + MAX_EXTRA;
+      s = { n, xA: new Float64Array(cap), xB: new Float64Array(cap), xC: new Float64Array(cap), g: new Float64Array(cap) };
+      s.xA.set(b.xA); s.xB.set(b.xB); s.xC.set(b.xC);
+      if (iso.idealParts && iso.gFromIdeal) {
+        ideal = new Float64Array(n);
+        iso.idealParts(n, b.xA, b.xB, b.xC, ideal);
+      }
+    }
+    const eKey = iso.excessKey;
+    if (ideal && eKey !== undefined && iso.excessParts) {
+      // g_E the same at this T as at the last (its parameters do not depend on T): only RT changes
+      if (!excess || excess.key !== eKey) {
+        excess = { key: eKey, g: excess?.g ?? new Float64Array(n) };
+        iso.excessParts(n, b.xA, b.xB, b.xC, excess.g);
+      }
+      const RT = iso.RT, e = excess.g;
+      for (let k = 0; k < n; k++) s.g[k] = RT * ideal[k] + e[k];
+    } else if (ideal && iso.gFromIdeal) iso.gFromIdeal(n, b.xA, b.xB, b.xC, ideal, s.g);
+    else for (let k = 0; k < n; k++) s.g[k] = iso.g(b.xA[k], b.xB[k], b.xC[k]);
+    lastSamples = { key: model.key, T: iso.T, s, ideal, excess };
   }
   lastSamples.s.n = n;
   return lastSamples.s;
@@ -276,8 +302,12 @@ function residuals(iso: TernaryIsotherm, k: number, x: Float64Array, z: TernaryP
 /** Set when Newton ran a fraction below 1e-300 (not representable to full precision). */
 let underflow = false;
 
-/** Newton from the starting phases; the converged phases, or undefined. */
-function newton(iso: TernaryIsotherm, start: TernaryPoint[], z: TernaryPoint): TernaryPoint[] | undefined {
+/**
+ * Newton from the starting phases; the converged phases, or undefined. With `giveUp` (a warm start,
+ * whose caller has the sampled search to fall back on), a step that no halving makes lower the
+ * residual ends it at once, instead of being taken and retried up to MAX_NEWTON times.
+ */
+function newton(iso: TernaryIsotherm, start: TernaryPoint[], z: TernaryPoint, giveUp = false): TernaryPoint[] | undefined {
   const k = start.length, n = 2 * k;
   const u = new Float64Array(n);
   start.forEach((p, q) => toU(p, u, 2 * q));
@@ -317,12 +347,12 @@ function newton(iso: TernaryIsotherm, start: TernaryPoint[], z: TernaryPoint): T
       for (let q = 0; q < k; q++) fromU(uTry[2 * q], uTry[2 * q + 1], xTry, 3 * q);
       for (let i = 0; i < 3 * k; i++) if (!(xTry[i] > 1e-300)) underflow = true;
       newNorm = residuals(iso, k, xTry, z, r6);
-      if (Number.isFinite(newNorm) && (newNorm < norm || newNorm < 1e-13 || tries === 11)) { accepted = Number.isFinite(newNorm); break; }
+      if (Number.isFinite(newNorm) && (newNorm < norm || newNorm < 1e-13 || (tries === 11 && !giveUp))) { accepted = Number.isFinite(newNorm); break; }
       t /= 2;
     }
     if (!accepted) return undefined;
-    u.set(uTry.subarray(0, n));
-    xs.set(xTry.subarray(0, 3 * k));
+    for (let i = 0; i < n; i++) u[i] = uTry[i];
+    for (let i = 0; i < 3 * k; i++) xs[i] = xTry[i];
     norm = newNorm;
     // converged: a full step below 1e-12 in every u (relative 1e-12 in every fraction), twice
     if (t === 1 && big * t < 1e-12 && norm < 1e-9) {
@@ -391,6 +421,8 @@ function fractionsOf(phases: TernaryPoint[], z: TernaryPoint): number[] | undefi
 // The check: the plane through the phases lies below g
 
 const dLoc = new Float64Array(LOCAL_SIZE), dx = new Float64Array(3);
+/** g and mu at the first phase of an answer (read at once into the plane m). */
+const one = new Float64Array(LOCAL_SIZE);
 
 /**
  * D(x) = g(x) - sum_i m_i x_i at its local minimum reached from p by Newton in u (a Gauss–Newton
@@ -429,10 +461,13 @@ function localMinimum(iso: TernaryIsotherm, m: readonly number[], p: TernaryPoin
       fromU(uB + t * sB, uC + t * sC, xTry, 0);
       const Dn = Dat(xTry);
       if (Dn < D) {
-        uB += t * sB; uC += t * sC; D = Dn; dx.set(xTry.subarray(0, 3)); moved = true;
+        uB += t * sB; uC += t * sC; D = Dn; dx[0] = xTry[0]; dx[1] = xTry[1]; dx[2] = xTry[2]; moved = true;
         break;
       }
       t /= 2;
+      // a move this short would end the search anyway (below): at the minimum, where no step
+      // lowers D (rounding), stop halving here
+      if (t * len < 1e-10) break;
     }
     if (!moved || t * len < 1e-10) break;
   }
@@ -448,15 +483,20 @@ function cutOf(iso: TernaryIsotherm, s: Samples, m: readonly number[], phases: T
   const tol = 1e-10 * (iso.RT + Math.abs(m[0]) + Math.abs(m[1]) + Math.abs(m[2]));
   const lowest: Array<{ k: number; D: number }> = [];
   let worst: { p: TernaryPoint; D: number } | undefined;
-  for (let k = 0; k < s.n; k++) {
-    const D = s.g[k] - (m[0] * s.xA[k] + m[1] * s.xB[k] + m[2] * s.xC[k]);
-    if (D < -tol && (!worst || D < worst.D)) worst = { p: { xA: s.xA[k], xB: s.xB[k], xC: s.xC[k] }, D };
-    if (!(lowest.length < 6 || D < lowest[lowest.length - 1].D)) continue;
-    if (nearAny(phases, s.xA[k], s.xB[k], s.xC[k], MERGE)) continue;
+  // the arrays and the plane in locals: the loop's loads stay out of the calls it makes
+  const n = s.n, gs = s.g, xA = s.xA, xB = s.xB, xC = s.xC, mA = m[0], mB = m[1], mC = m[2];
+  // D of the sixth lowest kept (once six are kept)
+  let sixth = Infinity;
+  for (let k = 0; k < n; k++) {
+    const D = gs[k] - (mA * xA[k] + mB * xB[k] + mC * xC[k]);
+    if (D < -tol && (!worst || D < worst.D)) worst = { p: { xA: xA[k], xB: xB[k], xC: xC[k] }, D };
+    if (!(lowest.length < 6 || D < sixth)) continue;
+    if (nearAny(phases, xA[k], xB[k], xC[k], MERGE)) continue;
     {
       lowest.push({ k, D });
       lowest.sort((a, b) => a.D - b.D);
       if (lowest.length > 6) lowest.pop();
+      if (lowest.length === 6) sixth = lowest[5].D;
     }
   }
   if (worst) return worst.p;
@@ -499,7 +539,6 @@ export function splitFeed(model: TernaryModel, T: number, xA: number, xB: number
   const iso = isothermOf(model, T), z: TernaryPoint = sum === 1 ? { xA, xB, xC } : { xA: xA / sum, xB: xB / sum, xC: xC / sum };
   const s = samplesAt(model, iso);
   addSample(s, iso, z);
-  const one = new Float64Array(LOCAL_SIZE);
   underflow = false;
   for (let round = 0; round < 4; round++) {
     const cands = candidates(s, lowerFace(s, z, iso.RT));
@@ -557,9 +596,9 @@ export function splitFeed(model: TernaryModel, T: number, xA: number, xB: number
  * checked as the split checks its answers: p is then on the lower convex envelope (stable).
  */
 export function onEnvelope(model: TernaryModel, T: number, p: TernaryPoint): boolean {
-  const iso = model.at(T), s = samplesAt(model, iso), o = new Float64Array(LOCAL_SIZE);
-  iso.local(p.xA, p.xB, p.xC, o);
-  return cutOf(iso, s, [o[MUA], o[MUB], o[MUC]], [p]) === undefined;
+  const iso = model.at(T), s = samplesAt(model, iso);
+  iso.local(p.xA, p.xB, p.xC, one);
+  return cutOf(iso, s, [one[MUA], one[MUB], one[MUC]], [p]) === undefined;
 }
 
 /**
@@ -575,11 +614,10 @@ export function splitFrom(model: TernaryModel, T: number, z: TernaryPoint, start
   const sum = z.xA + z.xB + z.xC;
   const feed = sum === 1 ? z : { xA: z.xA / sum, xB: z.xB / sum, xC: z.xC / sum };
   const iso = isothermOf(model, T);
-  const phases = newton(iso, [...start], feed);
+  const phases = newton(iso, [...start], feed, true);
   if (!phases) return undefined;
   const fractions = fractionsOf(phases, feed);
   if (!fractions || fractions.some((f) => !(f >= -FRACTION_SLACK))) return undefined;
-  const one = new Float64Array(LOCAL_SIZE);
   iso.local(phases[0].xA, phases[0].xB, phases[0].xC, one);
   const m = [one[MUA], one[MUB], one[MUC]];
   if (verify && cutOf(iso, samplesAt(model, iso), m, phases)) return undefined;

@@ -22,8 +22,8 @@ import { propagate } from '../src/core/fit/propagation';
 import { gapTemperature } from '../src/core/gapTemperature';
 import type { BinaryModel } from '../src/core/model';
 import { redlichKisterFamily } from '../src/core/models/redlichKister';
+import type { Report } from './timing';
 
-type Report = (what: string, value: string, target?: string) => void;
 
 const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)];
 const fmt = (us: number) => (us < 1000 ? `${us.toFixed(2)} µs` : `${(us / 1000).toFixed(2)} ms`);

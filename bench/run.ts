@@ -24,34 +24,8 @@ import { tbinodalBench } from './tbinodal';
 import { uncertaintySection } from './uncertainty';
 import { fitSection } from './fit';
 import { ternaryBench } from './ternary';
+import { fmt, median, perCall, whole } from './timing';
 
-const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)];
-const fmt = (us: number) => (us < 1000 ? `${us.toFixed(2)} µs` : `${(us / 1000).toFixed(2)} ms`);
-
-/** Median time per call (µs) of `call(i)` over `batches` batches of `size` calls with distinct i. */
-function perCall(call: (i: number) => unknown, batches = 40, size = 250): number {
-  let i = 0;
-  for (let w = 0; w < size * 5; w++) call(i++); // warm-up (JIT)
-  const times: number[] = [];
-  for (let b = 0; b < batches; b++) {
-    const t0 = performance.now();
-    for (let k = 0; k < size; k++) call(i++);
-    times.push(((performance.now() - t0) * 1000) / size);
-  }
-  return median(times);
-}
-
-/** Median time (µs) of a whole task, run `runs` times. */
-function whole(task: () => unknown, runs = 25): number {
-  for (let w = 0; w < 3; w++) task();
-  const times: number[] = [];
-  for (let r = 0; r < runs; r++) {
-    const t0 = performance.now();
-    task();
-    times.push((performance.now() - t0) * 1000);
-  }
-  return median(times);
-}
 
 const rows: Array<[string, string, string]> = [];
 const report = (what: string, value: string, target = '') => {

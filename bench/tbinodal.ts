@@ -5,8 +5,8 @@
  */
 import { binodalTable } from '../src/core/ternary/binodalCurve';
 import { ternaryRedlichKister } from '../src/core/ternary/redlichKister';
+import type { Report } from './timing';
 
-type Report = (what: string, value: string, target?: string) => void;
 
 export function tbinodalBench(report: Report): void {
   // invented: L_AC = 7500 J/mol (a gap below about 451 K), weak A–B and B–C terms

@@ -8,45 +8,20 @@
 import { counterCurrent } from '../src/core/ternary/extraction';
 import { ternaryRedlichKister } from '../src/core/ternary/redlichKister';
 import { splitFeed, splitFrom } from '../src/core/ternary/split';
+import { fmt, perCall, whole, type Report } from './timing';
 
-type Report = (what: string, value: string, target?: string) => void;
-
-const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)];
-const fmt = (us: number) => (us < 1000 ? `${us.toFixed(2)} µs` : `${(us / 1000).toFixed(2)} ms`);
-
-/** Median time per call (µs) over batches of distinct calls. */
-function perCall(call: (i: number) => unknown, batches = 20, size = 20): number {
-  let i = 0;
-  for (let w = 0; w < size * 3; w++) call(i++);
-  const times: number[] = [];
-  for (let b = 0; b < batches; b++) {
-    const t0 = performance.now();
-    for (let k = 0; k < size; k++) call(i++);
-    times.push(((performance.now() - t0) * 1000) / size);
-  }
-  return median(times);
-}
-
-/** Median time (µs) of a whole task. */
-function whole(task: () => unknown, runs = 15): number {
-  for (let w = 0; w < 2; w++) task();
-  const times: number[] = [];
-  for (let r = 0; r < runs; r++) {
-    const t0 = performance.now();
-    task();
-    times.push((performance.now() - t0) * 1000);
-  }
-  return median(times);
-}
+// this section's batches: 20 x 20 calls after 3 batches of warm-up; whole tasks 15 runs after 2
+const perCallT = (call: (i: number) => unknown, batches = 20, size = 20) => perCall(call, batches, size, 3);
+const wholeT = (task: () => unknown, runs = 15) => whole(task, runs, 2);
 
 export function ternaryBench(report: Report): void {
   const RT = 8.314462618 * 298.15;
   const model = ternaryRedlichKister({ AB: [{ a: 1.2 * RT, b: 0, c: 0 }], AC: [{ a: 3.4 * RT, b: 0, c: 0 }], BC: [{ a: 0.4 * RT, b: 0, c: 0 }] });
   const z = (i: number) => ({ xA: 0.44 - 0.02 * ((i * 0.6180339887) % 1), xB: 0.11, xC: 0.45 + 0.02 * ((i * 0.6180339887) % 1) });
   report('ternary split of a feed at a new temperature (cold: samples, envelope, Newton, check)',
-    fmt(perCall((i) => { const p = z(i); return splitFeed(model, 290 + ((i * 0.7548776662) % 1) * 20, p.xA, p.xB, p.xC); })), 'target < 2 ms');
+    fmt(perCallT((i) => { const p = z(i); return splitFeed(model, 290 + ((i * 0.7548776662) % 1) * 20, p.xA, p.xB, p.xC); })), 'target < 2 ms');
   report('same, a new feed at the temperature of the last call (samples kept)',
-    fmt(perCall((i) => { const p = z(i); return splitFeed(model, 298.15, p.xA, p.xB, p.xC); })));
+    fmt(perCallT((i) => { const p = z(i); return splitFeed(model, 298.15, p.xA, p.xB, p.xC); })));
   // warm: each call starts from the tie-line of the previous call's feed (1e-4 away) or
   // temperature (0.01 K away); a new temperature also recomputes g on the check's samples
   let last = splitFeed(model, 298.15, 0.44, 0.11, 0.45);
@@ -55,12 +30,12 @@ export function ternaryBench(report: Report): void {
     last = r;
     return r;
   };
-  report('ternary split at a neighbouring feed, warm (Newton from its tie-line, checked)', fmt(perCall((i) => {
+  report('ternary split at a neighbouring feed, warm (Newton from its tie-line, checked)', fmt(perCallT((i) => {
     const step = i % 200;
     return warm(298.15, { xA: 0.44 - 1e-4 * step, xB: 0.11, xC: 0.45 + 1e-4 * step });
   })), 'target < 100 µs');
   last = splitFeed(model, 298.15, 0.44, 0.11, 0.45);
-  report('ternary split at a neighbouring T, warm (same, and g on the samples at the new T)', fmt(perCall((i) => warm(298.15 + 0.01 * (i % 200), { xA: 0.44, xB: 0.11, xC: 0.45 }))), 'target < 100 µs');
+  report('ternary split at a neighbouring T, warm (same, and g on the samples at the new T)', fmt(perCallT((i) => warm(298.15 + 0.01 * (i % 200), { xA: 0.44, xB: 0.11, xC: 0.45 }))), 'target < 100 µs');
   const feed = { amount: 100, x: { xA: 0.8, xB: 0.2, xC: 0 } }, solvent = { amount: 80, x: { xA: 0, xB: 0, xC: 1 } };
-  report('10-stage counter-current cascade (Newton on the stage equations)', fmt(whole(() => counterCurrent(model, 298.15, feed, solvent, 10))), 'target < 20 ms');
+  report('10-stage counter-current cascade (Newton on the stage equations)', fmt(wholeT(() => counterCurrent(model, 298.15, feed, solvent, 10))), 'target < 20 ms');
 }

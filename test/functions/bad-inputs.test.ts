@@ -9,16 +9,14 @@
  *
  * Where today's behaviour is wrong the row keeps the right expectation (and fails until fixed).
  */
-import path from 'path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { generateCustomFunctionsMetadata } from 'custom-functions-metadata';
 import type { HyperFormula } from 'hyperformula';
 import { CellFailure, type CellErrorCode } from '../../src/functions/errors';
 import * as fitFns from '../../src/functions/fitting';
 import * as fns from '../../src/functions/functions';
-import type { CustomFunctionsMetadata } from '../../src/hosts/engine';
 import { evaluateFormulas } from '../../src/hosts/evaluate';
 import { buildMixgapEngine } from '../../src/hosts/mixgap-engine';
+import { generatedMetadata } from './support/evaluate';
 
 /** A regular solution with Omega = 21000 J/mol: Tc = Omega/2R = 1263 K (spec, closed forms), one gap below. */
 const OMEGA = 21000;
@@ -157,19 +155,7 @@ const table = (f: typeof fns, fit: typeof fitFns): Row[] => [
 const rows = table(fns, fitFns);
 const f = fns;
 
-/** functions.json as the build generates it from the JSDoc of src/functions (generated once). */
-let generatedMetadata: Promise<CustomFunctionsMetadata> | undefined;
-function metadata(): Promise<CustomFunctionsMetadata> {
-  generatedMetadata ??= (async () => {
-    const root = path.join(__dirname, '..', '..');
-    // eslint-disable-next-line @typescript-eslint/no-require-imports
-    const sources: string[] = require('../../src/functions/sources.js').map((s: string) => path.join(root, 'src', 'functions', s));
-    const generated = await generateCustomFunctionsMetadata(sources, false);
-    expect(generated.errors).toEqual([]);
-    return JSON.parse(generated.metadataJson) as CustomFunctionsMetadata;
-  })();
-  return generatedMetadata;
-}
+const metadata = generatedMetadata;
 
 /** The CellFailure a call throws; a returned value or any other exception is reported as such. */
 function outcome(call: () => unknown): CellFailure | string {

@@ -11,7 +11,6 @@ import { spawnSync } from 'child_process';
 import { existsSync } from 'fs';
 import path from 'path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { generateCustomFunctionsMetadata } from 'custom-functions-metadata';
 import type { HyperFormula } from 'hyperformula';
 import { activities, decompositionGain, drivingForce } from '../../src/core/activity';
 import { phaseMap, type PhaseMap } from '../../src/core/binodal';
@@ -22,27 +21,19 @@ import { floryHuggins } from '../../src/core/models/floryHuggins';
 import { nrtl } from '../../src/core/models/nrtl';
 import * as fns from '../../src/functions/functions';
 import { CellFailure } from '../../src/functions/errors';
-import type { CustomFunctionsMetadata } from '../../src/hosts/engine';
 import { evaluateFormulas, type FormulaResult } from '../../src/hosts/evaluate';
 import { buildMixgapEngine } from '../../src/hosts/mixgap-engine';
+import { generatedMetadata, inlineArray as inline } from './support/evaluate';
 
 const root = path.join(__dirname, '..', '..');
-// eslint-disable-next-line @typescript-eslint/no-require-imports
-const sources: string[] = require('../../src/functions/sources.js').map((f: string) => path.join(root, 'src', 'functions', f));
 
 let engine: HyperFormula;
 beforeAll(async () => {
-  const generated = await generateCustomFunctionsMetadata(sources, false);
-  expect(generated.errors).toEqual([]);
-  const metadata: CustomFunctionsMetadata = JSON.parse(generated.metadataJson);
+  const metadata = await generatedMetadata();
   engine = buildMixgapEngine(metadata);
 });
 
 type Cell = string | number | boolean | null;
-
-/** An inline array of a card, as typed into a formula: {"model","nrtl";"b12",800;...}. */
-const inline = (card: Cell[][]) =>
-  `{${card.map((row) => row.map((v) => (typeof v === 'string' ? `"${v}"` : String(v))).join(',')).join(';')}}`;
 
 // NRTL: tau12 = 800/T, tau21 = 500/T, alpha = 0.2 (an upper critical point near 567 K)
 const NRTL_CARD: Cell[][] = [['model', 'nrtl'], ['b12', 800], ['b21', 500], ['alpha', 0.2], ['name A', 'water'], ['name B', 'oil']];

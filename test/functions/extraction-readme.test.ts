@@ -8,21 +8,13 @@ import { readFileSync } from 'fs';
 import path from 'path';
 import { describe, expect, it } from 'vitest';
 import { evaluateIn } from './support/evaluate';
+import { agrees } from './support/digits';
 
 const root = path.join(__dirname, '..', '..');
 const readme = readFileSync(path.join(root, 'README.md'), 'utf8');
 const start = readme.indexOf('### Extraction cascades');
 const section = readme.slice(start, readme.indexOf('\n## ', start));
 const metadata = JSON.parse(readFileSync(path.join(root, 'dist', 'functions.json'), 'utf8'));
-
-/** Whether a value rounds to the number shown: within half a unit of its last printed digit. */
-function agrees(value: unknown, shown: string): boolean {
-  if (typeof value !== 'number') return false;
-  const n = Number(shown);
-  const digits = shown.replace(/^-/, '').replace(/e.*$/, '').replace('.', '').replace(/^0+/, '').length;
-  const tolerance = n === 0 ? 0 : 0.5 * 10 ** (Math.floor(Math.log10(Math.abs(n))) - digits + 1) * 1.0000001;
-  return Math.abs(value - n) <= tolerance;
-}
 
 describe('README: extraction cascades', () => {
   it('documents TCASCADE, TSTAGETABLE, TRECOVERY and TSTAGES', () => {

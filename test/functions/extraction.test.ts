@@ -6,29 +6,22 @@
  * themselves (balances, Kremser) are checked in test/core/ternary/extraction.test.ts. Invented
  * system: water (A) / an invented solvent (B) / an invented solute (C).
  */
-import path from 'path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { generateCustomFunctionsMetadata } from 'custom-functions-metadata';
 import type { HyperFormula } from 'hyperformula';
 import { crossCurrent } from '../../src/core/ternary/extraction';
 import * as x from '../../src/functions/extraction';
 import * as t from '../../src/functions/ternary';
 import { readTernaryCard } from '../../src/functions/ternaryCard';
-import type { CustomFunctionsMetadata } from '../../src/hosts/engine';
 import { evaluateFormulas } from '../../src/hosts/evaluate';
 import { buildMixgapEngine } from '../../src/hosts/mixgap-engine';
 import { failure } from './support/failure';
-
-const root = path.join(__dirname, '..', '..');
-// eslint-disable-next-line @typescript-eslint/no-require-imports
-const sources: string[] = require('../../src/functions/sources.js').map((f: string) => path.join(root, 'src', 'functions', f));
+import { generatedMetadata, inlineArray as inline } from './support/evaluate';
 
 type Cell = string | number;
 const RK: Cell[][] = [
   ['model', 'rk'], ['AB.L0', 12000], ['AC.L0', 2000], ['BC.L0', -1000],
   ['name A', 'water'], ['name B', 'solvent'], ['name C', 'solute'],
 ];
-const inline = (card: Cell[][]) => `{${card.map((row) => row.map((v) => (typeof v === 'string' ? `"${v}"` : String(v))).join(',')).join(';')}}`;
 const T = 300;
 const feed = [[0.9, 0, 0.1]], solvent = [[0, 1, 0]];
 const a = (v: unknown) => v as any;
@@ -103,9 +96,7 @@ describe('TCASCADE, TRECOVERY, TSTAGES in the cell layer', () => {
 describe('through the embedded engine', () => {
   let engine: HyperFormula;
   beforeAll(async () => {
-    const generated = await generateCustomFunctionsMetadata(sources, false);
-    expect(generated.errors).toEqual([]);
-    engine = buildMixgapEngine(JSON.parse(generated.metadataJson) as CustomFunctionsMetadata);
+    engine = buildMixgapEngine(await generatedMetadata());
   });
 
   it('TCASCADE spills 2 x 5 and TSTAGES is one cell, as the direct calls give; a target out of reach is #N/A', () => {

@@ -3,28 +3,22 @@
  * formula engine, with metadata generated from the JSDoc tags of src/functions/sources.js and the
  * spill sizes of src/functions/shapes.ts.
  */
-import path from 'path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { generateCustomFunctionsMetadata } from 'custom-functions-metadata';
 import type { HyperFormula } from 'hyperformula';
 import { phaseMap } from '../../src/core/binodal';
 import { redlichKister } from '../../src/core/models/redlichKister';
 import * as fns from '../../src/functions/index';
 import { spillShape } from '../../src/functions/shapes';
-import { buildEngine, type CustomFunctionsMetadata } from '../../src/hosts/engine';
+import { buildEngine } from '../../src/hosts/engine';
 import { evaluateFormulas } from '../../src/hosts/evaluate';
+import { generatedMetadata } from './support/evaluate';
 
-const root = path.join(__dirname, '..', '..');
-// eslint-disable-next-line @typescript-eslint/no-require-imports
-const sources: string[] = require('../../src/functions/sources.js').map((f: string) => path.join(root, 'src', 'functions', f));
 let engine: HyperFormula;
 
 const shape = spillShape;
 
 beforeAll(async () => {
-  const generated = await generateCustomFunctionsMetadata(sources, false);
-  expect(generated.errors).toEqual([]);
-  const metadata: CustomFunctionsMetadata = JSON.parse(generated.metadataJson);
+  const metadata = await generatedMetadata();
   engine = buildEngine(metadata, fns as Record<string, unknown>, shape);
 });
 

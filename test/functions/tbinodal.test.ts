@@ -6,24 +6,17 @@
  * test/core/ternary/binodalCurve.test.ts. Scenarios and numbers are invented.
  */
 import { describe, expect, it } from 'vitest';
-import { generateCustomFunctionsMetadata } from 'custom-functions-metadata';
-import path from 'path';
 import { R } from '../../src/core/constants';
 import { CellFailure } from '../../src/functions/errors';
 import * as bin from '../../src/functions/functions';
 import { spillShape } from '../../src/functions/shapes';
 import * as t from '../../src/functions/ternary';
-import type { CustomFunctionsMetadata } from '../../src/hosts/engine';
 import { evaluateFormulas } from '../../src/hosts/evaluate';
 import { buildMixgapEngine } from '../../src/hosts/mixgap-engine';
 import { failure } from './support/failure';
-
-const root = path.join(__dirname, '..', '..');
-// eslint-disable-next-line @typescript-eslint/no-require-imports
-const sources: string[] = require('../../src/functions/sources.js').map((f: string) => path.join(root, 'src', 'functions', f));
+import { generatedMetadata, inlineArray as inline } from './support/evaluate';
 
 type Cell = string | number;
-const inline = (card: Cell[][]) => `{${card.map((row) => row.map((v) => (typeof v === 'string' ? `"${v}"` : String(v))).join(',')).join(';')}}`;
 
 // water (A) / an invented solvent (B) / an invented solute (C): a gap on the A–B edge only
 const RK: Cell[][] = [
@@ -91,9 +84,7 @@ describe('TBINODAL', () => {
   });
 
   it('through the embedded engine: the same table, #N/A rows as errors', async () => {
-    const generated = await generateCustomFunctionsMetadata(sources, false);
-    expect(generated.errors).toEqual([]);
-    const engine = buildMixgapEngine(JSON.parse(generated.metadataJson) as CustomFunctionsMetadata);
+    const engine = buildMixgapEngine(await generatedMetadata());
     try {
       const [got, sym] = evaluateFormulas(engine, [`=MIXGAP.TBINODAL(${T}, ${inline(RK)}, 12)`, `=MIXGAP.TBINODAL(${T}, ${inline(SYMMETRIC)}, 20)`]) as unknown[][][];
       const want = table(RK, 12) as number[][];

@@ -10,6 +10,7 @@ import path from 'path';
 import { evaluateIn } from './support/evaluate';
 import { describe, expect, it } from 'vitest';
 import { TERNARY_FAMILIES } from '../../src/core/ternary/families';
+import { agrees } from './support/digits';
 
 const root = path.join(__dirname, '..', '..');
 const readme = readFileSync(path.join(root, 'README.md'), 'utf8');
@@ -18,15 +19,6 @@ const section = readme.slice(start, readme.indexOf('\n## ', start + 5));
 const metadata = JSON.parse(readFileSync(path.join(root, 'dist', 'functions.json'), 'utf8'));
 
 const evaluate = (formulas: string[]) => evaluateIn(metadata, formulas);
-
-/** Whether a value rounds to the number shown: within half a unit of its last printed digit. */
-function agrees(value: unknown, shown: string): boolean {
-  if (typeof value !== 'number') return false;
-  const n = Number(shown);
-  const digits = shown.replace(/^-/, '').replace(/e.*$/, '').replace('.', '').replace(/^0+/, '').length;
-  const tolerance = n === 0 ? 0 : 0.5 * 10 ** (Math.floor(Math.log10(Math.abs(n))) - digits + 1) * 1.0000001;
-  return Math.abs(value - n) <= tolerance;
-}
 
 describe('README: three components', () => {
   it('has the section', () => expect(start).toBeGreaterThan(0));

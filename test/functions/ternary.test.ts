@@ -11,7 +11,6 @@ import { spawnSync } from 'child_process';
 import { existsSync } from 'fs';
 import path from 'path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { generateCustomFunctionsMetadata } from 'custom-functions-metadata';
 import type { HyperFormula } from 'hyperformula';
 import { R } from '../../src/core/constants';
 import { crossCurrent } from '../../src/core/ternary/extraction';
@@ -20,17 +19,14 @@ import { CellFailure } from '../../src/functions/errors';
 import * as bin from '../../src/functions/functions';
 import { molarMass } from '../../src/functions/fitting';
 import * as t from '../../src/functions/ternary';
-import type { CustomFunctionsMetadata } from '../../src/hosts/engine';
 import { evaluateFormulas, type FormulaResult } from '../../src/hosts/evaluate';
 import { buildMixgapEngine } from '../../src/hosts/mixgap-engine';
 import { failure } from './support/failure';
+import { generatedMetadata, inlineArray as inline } from './support/evaluate';
 
 const root = path.join(__dirname, '..', '..');
-// eslint-disable-next-line @typescript-eslint/no-require-imports
-const sources: string[] = require('../../src/functions/sources.js').map((f: string) => path.join(root, 'src', 'functions', f));
 
 type Cell = string | number;
-const inline = (card: Cell[][]) => `{${card.map((row) => row.map((v) => (typeof v === 'string' ? `"${v}"` : String(v))).join(',')).join(';')}}`;
 
 // water (A) / an invented solvent (B) / an invented solute (C), Redlich–Kister, J/mol
 const RK: Cell[][] = [
@@ -324,9 +320,7 @@ const ALL = [
 describe('the embedded engine and mixgap eval --json give what the cell functions give', () => {
   let engine: HyperFormula;
   beforeAll(async () => {
-    const generated = await generateCustomFunctionsMetadata(sources, false);
-    expect(generated.errors).toEqual([]);
-    engine = buildMixgapEngine(JSON.parse(generated.metadataJson) as CustomFunctionsMetadata);
+    engine = buildMixgapEngine(await generatedMetadata());
   });
 
   it('through the engine', () => {

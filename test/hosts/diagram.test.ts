@@ -17,6 +17,7 @@ import { system } from '../../src/functions/args';
 import { across, diagramData, diagramLabels, diagramSpec, fontFiles, linearDomain, logDomain, logTicks, PLOT, renderPng, renderSvg } from '../../src/hosts/diagram';
 import type { CompositionAxis, DiagramData } from '../../src/hosts/diagram';
 import type { CardGrid } from '../../src/hosts/diagram';
+import { darkPixels } from './support/png';
 
 const root = path.join(__dirname, '..', '..');
 const metadata = JSON.parse(readFileSync(path.join(root, 'dist', 'functions.json'), 'utf8'));
@@ -25,16 +26,6 @@ const card: CardGrid = [
   ['model', 'redlich-kister'], ['L0', 18], ['L1', 2.2], ['energy', 'kJ/mol'], ['temperature', '°C'],
   ['name A', 'Avarite'], ['name B', 'Bexium'],
 ];
-
-/** Pixels darker than mid-grey in a PNG. */
-function darkPixels(png: Buffer): number {
-  const img = PNG.sync.read(png);
-  let n = 0;
-  for (let i = 0; i < img.data.length; i += 4) {
-    if (img.data[i + 3] > 0 && (img.data[i] + img.data[i + 1] + img.data[i + 2]) / 3 < 128) n++;
-  }
-  return n;
-}
 
 describe('diagram data', () => {
   const data = diagramData(metadata, card, { tmin: 300, tmax: 900, rows: 61, marks: [{ x: 0.12, label: 'grade L' }] });

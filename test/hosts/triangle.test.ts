@@ -17,6 +17,7 @@ import * as t from '../../src/functions/ternary';
 import type { CardGrid } from '../../src/hosts/diagram';
 import { renderPng } from '../../src/hosts/diagram';
 import { parseCascade, parseFeed, pixel, triangleData, triangleSvg, type Composition } from '../../src/hosts/triangle';
+import { darkPixels } from './support/png';
 
 const root = path.join(__dirname, '..', '..');
 const metadata = JSON.parse(readFileSync(path.join(root, 'dist', 'functions.json'), 'utf8'));
@@ -29,15 +30,6 @@ const card: CardGrid = [
 // three equally immiscible liquids: a three-phase triangle
 const symmetric: CardGrid = [['model', 'rk'], ['AB.L0', 12000], ['AC.L0', 12000], ['BC.L0', 12000]];
 const T = 300;
-
-function darkPixels(png: Buffer): number {
-  const img = PNG.sync.read(png);
-  let n = 0;
-  for (let i = 0; i < img.data.length; i += 4) {
-    if (img.data[i + 3] > 0 && (img.data[i] + img.data[i + 1] + img.data[i + 2]) / 3 < 128) n++;
-  }
-  return n;
-}
 
 describe('triangle data', () => {
   const data = triangleData(metadata, card, { T, rows: 31, feeds: [{ xB: 0.4, xC: 0.1, label: 'feed 1' }] });

@@ -1,7 +1,7 @@
 /**
  * The same formula gives the same number whatever was computed before, for the functions that the
  * fixed set (order-independence.test.ts) does not cover: the three-component functions (splits,
- * plait points, three-phase triangles, binodal tables, cascades) and the uncertainty functions.
+ * plait points, three-phase triangles, binodal tables, cascades), the fit and the uncertainty functions.
  * The same formulas, with warm-up formulas at nearby temperatures and feeds between them, are
  * evaluated through the embedded engine in several orders (as listed, reversed, seeded shuffles)
  * and in a child process (`mixgap eval --json`, a fresh process); every result must be the same
@@ -21,6 +21,10 @@ const FH = '{"model","fh";"NA",1;"NB",1;"NC",200;"AB.chi.A",0.4;"AC.chi.A",0.9;"
 const SYMMETRIC = '{"model","rk";"AB.L0",12000;"AC.L0",12000;"BC.L0",12000}';
 const EXTRACTION = '{"model","rk";"AB.L0",3.2;"AC.L0",8.8;"BC.L0",0.6;"energy","kJ/mol";"temperature","°C";"name A","Corvane";"name B","lumic acid";"name C","Tessol"}';
 const REGULAR_U = '{"model","regular";"omega",20000;"u(omega)",200}';
+// the README's worked example of a fit: an invented blend's cloud points (°C)
+const BLEND_START = '{"model","flory-huggins","";"NA",100,"";"NB",60,"fixed";"chi.A","","fit";"chi.B","","fit";"temperature","°C",""}';
+const CLOUDS = [[79, 0.15], [118.4, 0.25], [143.1, 0.35], [156.1, 0.45], [161.9, 0.55], [158.9, 0.65], [145.3, 0.75]];
+const cloudData = (rows: number[][]) => `{"kind","T","phi","","u";${rows.map(([T, phi]) => `"cloud point",${T},${phi},"",0.5`).join(';')}}`;
 const RK_U = '{"model","rk";"energy","kJ/mol";"temperature","°C";"L0",20;"L1",2;"u(L0)",0.15;"u(L1)",0.12;"r(L0, L1)",-0.6}';
 
 /** The formulas compared, and for each the warm-up formulas (nearby T or feed) put before it in the mixed orders. */
@@ -47,6 +51,9 @@ const CASES: Array<{ formula: string; warm: string[] }> = [
   { formula: `=MIXGAP.UNCERTAINTY("GAPLOW", 500, ${RK_U})`, warm: [`=MIXGAP.UNCERTAINTY("GAPLOW", 510, ${RK_U})`, `=MIXGAP.GAPTABLE(450, 550, 5, ${RK_U})`] },
   { formula: `=MIXGAP.UNCERTAINTY("TCRIT", ${RK_U})`, warm: [`=MIXGAP.UNCERTAINTY("XCRIT", ${RK_U})`] },
   { formula: `=MIXGAP.GAPBAND(400, 900, 6, ${RK_U})`, warm: [`=MIXGAP.GAPBAND(420, 880, 4, ${RK_U})`] },
+  { formula: `=MIXGAP.FITMODEL(${BLEND_START}, ${cloudData(CLOUDS)})`, warm: [`=MIXGAP.FITMODEL(${BLEND_START}, ${cloudData(CLOUDS.slice(1))})`] },
+  { formula: `=MIXGAP.TCRIT(MIXGAP.FITMODEL(${BLEND_START}, ${cloudData(CLOUDS)}, , FALSE))`, warm: [`=MIXGAP.GAPLOW(150, MIXGAP.FITMODEL(${BLEND_START}, ${cloudData(CLOUDS.slice(0, 6))}, , FALSE))`] },
+  { formula: `=MIXGAP.UNCERTAINTY("TCRIT", MIXGAP.FITMODEL(${BLEND_START}, ${cloudData(CLOUDS)}))`, warm: [`=MIXGAP.UNCERTAINTY("GAPLOW", 150, MIXGAP.FITMODEL(${BLEND_START}, ${cloudData(CLOUDS)}))`] },
 ];
 
 /** mulberry32: a small seeded generator (common practice, no published source). */
@@ -95,7 +102,7 @@ async function resultsIn(order: number[], warm: boolean): Promise<Map<number, Sh
   return out;
 }
 
-describe('three-component and uncertainty results do not depend on what was computed before', () => {
+describe('three-component, fit and uncertainty results do not depend on what was computed before', () => {
   const listed = CASES.map((_, i) => i);
 
   it('every case gives a result (numbers, not errors: the comparison is of answers)', async () => {

@@ -36,9 +36,25 @@ export const NEAR_CRITICAL_DROP = 1e-11;
 /**
  * Width of the cells of u that make a final solve canonical: 2^-20, an exact binary fraction,
  * far wider than the rounding of a root (about 1e-15), far narrower than what separates roots.
+ * A final solve is Newton's method from the midpoint of the root's cell (roots.ts).
  */
 export const CELL = 2 ** -20;
-/** A Newton estimate may start a canonical final solve after a step below ESTIMATE max(1, |u|): its error is then of order 1e-8, within a cell or two. */
+/**
+ * A root closer than CELL_GUARD (CELL / 64) to a cell boundary is placed by the sign of its
+ * function at that boundary alone; farther, by where the final solve put it. Far wider than the
+ * error a final solve is accepted with (ROOT_NOISE), narrow enough that only about 1 final
+ * solve in 32 needs that extra evaluation.
+ */
+export const CELL_GUARD = CELL / 64;
+/**
+ * The rounding of a computed g, g' or q is taken as at most ROUNDING (2^-44, about 256 units in
+ * the last place) of the sizes of its terms; a final solve is accepted only when the error of the
+ * root this allows is below ROOT_NOISE = CELL_GUARD / 4 (else the caller solves the slow way:
+ * near a critical point, where the root is ill-conditioned).
+ */
+export const ROUNDING = 2 ** -44;
+export const ROOT_NOISE = CELL_GUARD / 4;
+/** A Newton estimate may start a canonical final solve after a step below ESTIMATE max(1, |u|): its error is then of order 1e-8, within the cell or the next. */
 export const ESTIMATE = 1e-4;
 
 /**

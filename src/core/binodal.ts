@@ -475,8 +475,8 @@ export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
 /**
  * The phase map at a temperature next to `prev`, when the caller knows that no critical point lies
  * between the two temperatures (so no gap opens or closes and no unstable interval appears): the
- * spinodal points are followed by Newton's method on q and the gap by `tangentNewton`, and each
- * then ends in the same final solve as phaseMap's (spinodalRootNear, canonicalGap), so the answer
+ * spinodal points are followed by Newton's method on q and the gap by the first solve of
+ * canonicalGap from its estimate, and each then ends in the same final solve as phaseMap's (spinodalRootNear, canonicalGap), so the answer
  * is phaseMap's, bit for bit, whatever `prev` was. Covers the common cases of no gap and of one
  * gap over one unstable interval; returns undefined (the caller then solves from scratch) for
  * anything else or when a step does not settle. `before` and `beforeThat`, the maps of the two
@@ -489,9 +489,10 @@ export function continueMap(iso: Isotherm, prev: PhaseMap, before?: PhaseMap, be
   if (!followable(prev)) return undefined;
   const b = before && followable(before) ? before : undefined;
   const c = b && beforeThat && followable(beforeThat) ? beforeThat : undefined;
-  let e1: number | undefined = ahead(iso.T, 0, prev, b, c);
+  aheadWeights(iso.T, prev, b, c);
+  let e1: number | undefined = ahead(0, prev, b, c);
   if (!aheadSettled) e1 = followRoot(iso, e1);
-  let e2: number | undefined = ahead(iso.T, 1, prev, b, c);
+  let e2: number | undefined = ahead(1, prev, b, c);
   if (!aheadSettled) e2 = followRoot(iso, e2);
   if (e1 === undefined || e2 === undefined) return undefined;
   const s1 = spinodalRootNear(iso, e1), s2 = spinodalRootNear(iso, e2);
@@ -502,9 +503,8 @@ export function continueMap(iso: Isotherm, prev: PhaseMap, before?: PhaseMap, be
   j.b = s1; j.slopeHigh = iso.dg(spinodal[0].x, spinodal[0].y); j.guess = s1 - 1;
   k.a = s2; k.slopeLow = iso.dg(spinodal[1].x, spinodal[1].y); k.guess = s2 + 1;
   if (nearCritical(iso, j, k)) return { T: iso.T, gaps: [criticalGap(iso, s1, s2)], spinodal };
-  const g1 = ahead(iso.T, 2, prev, b, c), settled1 = aheadSettled, g2 = ahead(iso.T, 3, prev, b, c);
-  const gap = settled1 && aheadSettled ? canonicalGap(iso, j, k, g1, g2)
-    : tangentNewton(iso, g1, g2, s1, s2) ? canonicalGap(iso, j, k, tangentEstimate[0], tangentEstimate[1]) : undefined;
+  // canonicalGap's first solve starts from the cells of the estimates, settled or not
+  const gap = canonicalGap(iso, j, k, ahead(2, prev, b, c), ahead(3, prev, b, c));
   return gap && { T: iso.T, gaps: [gap], spinodal };
 }
 const lowBranch: Branch = { a: -Infinity, b: 0, slopeLow: -Infinity, slopeHigh: 0, guess: 0 };
@@ -522,24 +522,38 @@ function pointOf(map: PhaseMap, which: number): number {
 
 /** Whether the last `ahead` answer has settled (see SETTLED). */
 let aheadSettled = false;
+/**
+ * The weights of u0, u1, u2 (the point at prev.T, before.T, beforeThat.T) in Lagrange's polynomial
+ * through them at T, and of u0 - u1 in the linear extrapolation: the same for every point of a row.
+ */
+const weights = new Float64Array(4);
+
+/** Sets `weights` for the row at T (see ahead). */
+function aheadWeights(T: number, p: PhaseMap, b?: PhaseMap, c?: PhaseMap): void {
+  if (!b) return;
+  const t0 = p.T, t1 = b.T;
+  weights[3] = (T - t0) / (t0 - t1);
+  if (!c) return;
+  const t2 = c.T;
+  weights[0] = ((T - t1) * (T - t2)) / ((t0 - t1) * (t0 - t2));
+  weights[1] = ((T - t0) * (T - t2)) / ((t1 - t0) * (t1 - t2));
+  weights[2] = ((T - t0) * (T - t1)) / ((t2 - t0) * (t2 - t1));
+}
 
 /**
  * Point `which` at T, extrapolated from the maps at up to three earlier temperatures (Lagrange's
- * polynomial through them): only a starting point, so anything not finite or far from the last
- * answer gives way to the last answer itself. Sets aheadSettled.
+ * polynomial through them, weights from aheadWeights): only a starting point, so anything not
+ * finite or far from the last answer gives way to the last answer itself. Sets aheadSettled.
  */
-function ahead(T: number, which: number, p: PhaseMap, b?: PhaseMap, c?: PhaseMap): number {
+function ahead(which: number, p: PhaseMap, b?: PhaseMap, c?: PhaseMap): number {
   aheadSettled = false;
   const u0 = pointOf(p, which);
   if (!b) return u0;
-  const t0 = p.T, t1 = b.T, u1 = pointOf(b, which);
-  const linear = u0 + ((u0 - u1) * (T - t0)) / (t0 - t1);
+  const u1 = pointOf(b, which);
+  const linear = u0 + (u0 - u1) * weights[3];
   let u = linear;
   if (c) {
-    const t2 = c.T, u2 = pointOf(c, which);
-    u = (u0 * (T - t1) * (T - t2)) / ((t0 - t1) * (t0 - t2))
-      + (u1 * (T - t0) * (T - t2)) / ((t1 - t0) * (t1 - t2))
-      + (u2 * (T - t0) * (T - t1)) / ((t2 - t0) * (t2 - t1));
+    u = u0 * weights[0] + u1 * weights[1] + pointOf(c, which) * weights[2];
     aheadSettled = Math.abs(u - linear) <= SETTLED * Math.max(1, Math.abs(u));
   }
   if (Number.isFinite(u) && Math.abs(u - u0) < 0.25) return u;

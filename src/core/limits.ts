@@ -58,10 +58,12 @@ export const ROOT_NOISE = CELL_GUARD / 4;
 export const ESTIMATE = 1e-4;
 
 /**
- * An extrapolation from three temperatures is taken as the estimate itself (no Newton step) when
- * its second-order part (quadratic minus linear extrapolation) is below SETTLED: its error, of
- * third order, is then far below a cell (1e-8 in the benchmark's 1000-row table). A worse estimate
- * only costs a longer walk to its cell: the answer is the final solve's.
+ * An extrapolation of a spinodal point from three temperatures is taken as the estimate itself (no
+ * Newton step) when its second-order part (quadratic minus linear extrapolation) is below SETTLED:
+ * its error, of third order, is then far below a cell (1e-8 in the benchmark's 1000-row table).
+ * A worse estimate only costs a longer walk to its cell: the answer is the final solve's. (The
+ * gap's estimate always goes to its final solve as it is: a first solve from the estimate's cells
+ * finds the root's cells, see roots.ts.)
  */
 export const SETTLED = 1e-5;
 /** A previous solve seeds a new one when its temperature is within WARM_WINDOW T (farther, a cold start is as fast). */

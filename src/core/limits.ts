@@ -40,19 +40,20 @@ export const NEAR_CRITICAL_DROP = 1e-11;
  */
 export const CELL = 2 ** -20;
 /**
- * A root closer than CELL_GUARD (CELL / 64) to a cell boundary is placed by the sign of its
- * function at that boundary alone; farther, by where the final solve put it. Far wider than the
- * error a final solve is accepted with (ROOT_NOISE), narrow enough that only about 1 final
- * solve in 32 needs that extra evaluation.
+ * A root closer than CELL_GUARD (CELL / 32) to a cell boundary is placed by the sign of its
+ * function at that boundary alone; farther, by where the final solve put it. Four times the error
+ * a final solve is accepted with (ROOT_NOISE), narrow enough that only about 1 final solve in 16
+ * needs that extra evaluation.
  */
-export const CELL_GUARD = CELL / 64;
+export const CELL_GUARD = CELL / 32;
 /**
- * The rounding of a computed g, g' or q is taken as at most ROUNDING (2^-44, about 256 units in
- * the last place) of the sizes of its terms; a final solve is accepted only when the error of the
- * root this allows is below ROOT_NOISE = CELL_GUARD / 4 (else the caller solves the slow way:
- * near a critical point, where the root is ill-conditioned).
+ * The rounding of a computed g or g' is taken as at most ROUNDING (2^-46, 64 units in the last
+ * place) of the sizes of its terms (those of the ideal part, RT (2 + |u|), and the values of g, g'
+ * and the excess part of g'); a final solve is accepted only when the error of the root this
+ * allows is below ROOT_NOISE = CELL_GUARD / 4 (else the caller solves the slow way: within about
+ * 0.5 K of a critical point of the benchmark's systems, where the tangent is ill-conditioned).
  */
-export const ROUNDING = 2 ** -44;
+export const ROUNDING = 2 ** -46;
 export const ROOT_NOISE = CELL_GUARD / 4;
 /** A Newton estimate may start a canonical final solve after a step below ESTIMATE max(1, |u|): its error is then of order 1e-8, within the cell or the next. */
 export const ESTIMATE = 1e-4;

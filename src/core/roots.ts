@@ -109,7 +109,7 @@ export function brentMin(f: (t: number) => number, a: number, b: number, tol = 1
  * is r's own when r is at least CELL_GUARD from both its ends (clearCell), else the side F(b) gives
  * for the boundary b next to r: the same cell from every such r (if r is clear of b, the root lies
  * on r's side farther than CELL_GUARD - ROOT_NOISE, where F(b) has the true sign; if not, every
- * r tests the same b). So no sign is evaluated unless r falls near a boundary (1 time in 32).
+ * r tests the same b). So no sign is evaluated unless r falls near a boundary (1 time in 16).
  *
  * newton<F>(i): Newton's method from the midpoint of cell i (usually two evaluations); it also
  * bounds the error the rounding of F allows at the root (ROUNDING of the sizes of F's terms over F').

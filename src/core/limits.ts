@@ -50,8 +50,10 @@ export const CELL_GUARD = CELL / 32;
  * The rounding of a computed g or g' is taken as at most ROUNDING (2^-46, 64 units in the last
  * place) of the sizes of its terms (those of the ideal part, RT (2 + |u|), and the values of g, g'
  * and the excess part of g'); a final solve is accepted only when the error of the root this
- * allows is below ROOT_NOISE = CELL_GUARD / 4 (else the caller solves the slow way: within about
- * 0.5 K of a critical point of the benchmark's systems, where the tangent is ill-conditioned).
+ * allows is below ROOT_NOISE = CELL_GUARD / 4 (else the caller solves the slow way: next to a
+ * critical point, where the tangent is ill-conditioned; for the benchmark's systems within 0.3-1 K
+ * of it, and 3-10 K for Flory-Huggins, whose terms are about RT / N, far below the RT (2 + |u|)
+ * taken for them).
  */
 export const ROUNDING = 2 ** -46;
 export const ROOT_NOISE = CELL_GUARD / 4;

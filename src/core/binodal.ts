@@ -2,8 +2,8 @@ import { curvatureMap, spinodalRootNear } from './curvature';
 import { fail, kelvin, MixgapError, msg } from './errors';
 import type { Isotherm, Point } from './model';
 import { logRatio, muA, pointAt, splitRatio } from './model';
-import { BRACKET_WIDTH, CELL, DILUTE_LIMIT, ENERGY_UNIT_HINT, ESTIMATE, SETTLED, NEAR_CRITICAL_DROP, NEWTON_STEP, SLOPE_STEP, U_LIMIT } from './limits';
-import type { SignCell } from './roots';
+import { BRACKET_WIDTH, CELL, DILUTE_LIMIT, ENERGY_UNIT_HINT, ESTIMATE, SETTLED, NEAR_CRITICAL_DROP, NEWTON_STEP, ROOT_NOISE, ROUNDING, SLOPE_STEP, U_LIMIT } from './limits';
+import { clearCell } from './roots';
 
 /** One miscibility gap at a temperature: the two coexisting compositions and their common tangent. */
 export interface Gap {
@@ -135,188 +135,163 @@ function criticalGap(iso: Isotherm, s1: number, s2: number): Gap {
   return { low, high, slope: iso.dg(c, 1 - c) };
 }
 
-const innerSlope = new Float64Array(1), outerSlope = new Float64Array(1);
 const xyCell = new Float64Array(2);
 
-// State of the final solves below, at module level so that their inner loops allocate nothing.
-let solveIso: Isotherm;
-let partnerBranch: Branch;
-// Their numbers (the slope m of the current solve, the partner's last point, the slope m of the
-// last partner solve and d g'/du near its point, NaN: none yet, to step the next estimate to its
-// cell) live in a typed array: a module-level `let` holding a double allocates on every write.
-const state = new Float64Array(4);
-const SOLVE_M = 0, PARTNER_ESTIMATE = 1, PARTNER_M = 2, PARTNER_RATE = 3;
-const innerCell: SignCell = { a: 0, b: 0, fa: 0, fb: 0 }, outerCell: SignCell = { a: 0, b: 0, fa: 0, fb: 0 };
-
 /** Scratch for g, g', g'' (Isotherm.derivatives), one per caller so that none overwrites another's. */
-const derSlope = new Float64Array(3), derTangent = new Float64Array(3), derEstimate1 = new Float64Array(3), derEstimate2 = new Float64Array(3), derSolve = new Float64Array(3);
+const derSlope = new Float64Array(3), derCell1 = new Float64Array(3), derCell2 = new Float64Array(3), derSide = new Float64Array(3), derEstimate1 = new Float64Array(3), derEstimate2 = new Float64Array(3), derSolve = new Float64Array(3);
 
 /**
- * g' at the last MEMO cell ends asked for, for one isotherm: the partner solves of one canonicalGap
- * ask for the same or neighbouring sign cells with slightly different slopes m (g' is a pure
- * function of u: the same bits).
+ * newtonSlope's results, in a typed array (a module-level `let` holding a double allocates on every
+ * write): the root, and the error the rounding of g' allows there.
  */
-const MEMO = 4;
-let memoIso: Isotherm | undefined;
-const memoU = new Float64Array(MEMO).fill(NaN), memoD = new Float64Array(MEMO);
-let memoNext = 0;
+const slopeOut = new Float64Array(2);
 
-/** g'(u) - m. */
-function slopeGap(u: number): number {
-  const iso = solveIso;
-  if (iso === memoIso) {
-    for (let i = 0; i < MEMO; i++) if (memoU[i] === u) return memoD[i] - state[SOLVE_M];
-  } else {
-    memoIso = iso;
-    memoU.fill(NaN);
-  }
-  splitRatio(u, xyCell);
-  const d = iso.dg(xyCell[0], xyCell[1]);
-  memoU[memoNext] = u;
-  memoD[memoNext] = d;
-  memoNext = (memoNext + 1) % MEMO;
-  return d - state[SOLVE_M];
-}
-
-/** g'(u) - m and its slope d g'/du = x y g''. */
-function slopeGapNewton(u: number, out: Float64Array): number {
-  splitRatio(u, xyCell);
-  const x = xyCell[0], y = xyCell[1];
-  solveIso.derivatives(x, y, derSlope);
-  out[0] = x * y * derSlope[2];
-  return derSlope[1] - state[SOLVE_M];
-}
-
-/** signCell (roots.ts) of slopeGap, its own copy of the rule (see there). */
-function signCellSlope(estimate: number, out: SignCell): SignCell | undefined {
-  let i = Math.floor(estimate / CELL);
-  let fa = slopeGap(i * CELL), fb = slopeGap((i + 1) * CELL);
-  for (let walk = 0; walk < 16; walk++) {
-    if (fa < 0 && fb >= 0) {
-      out.a = i * CELL; out.b = (i + 1) * CELL; out.fa = fa; out.fb = fb;
-      return out;
+/**
+ * newton (roots.ts) of g'(u) - m from the midpoint of cell i, its own copy of the rule (see there):
+ * the root into slopeOut[0] and the error the rounding of g' allows into slopeOut[1] (the terms of
+ * g' taken as of size RT (2 + |u|) + |g'| + |g' - RT u| + |m|). False when a step leaves the
+ * branch, the slope d g'/du = x y g'' at the last point is not positive, or it does not settle.
+ */
+function newtonSlope(iso: Isotherm, br: Branch, m: number, i: number): boolean {
+  let t = (i + 0.5) * CELL;
+  for (let iter = 0; iter < 30; iter++) {
+    if (!(t > br.a && t < br.b && Math.abs(t) < U_LIMIT)) return false;
+    splitRatio(t, xyCell);
+    const x = xyCell[0], y = xyCell[1];
+    iso.derivatives(x, y, derSlope);
+    const c = x * y * derSlope[2];
+    const step = (derSlope[1] - m) / c;
+    if (!Number.isFinite(step)) return false;
+    if (Math.abs(step) <= NEWTON_STEP * Math.max(1, Math.abs(t))) {
+      slopeOut[0] = t - step;
+      slopeOut[1] = (ROUNDING * (iso.RT * (2 + Math.abs(t)) + Math.abs(derSlope[1]) + Math.abs(derSlope[1] - iso.RT * t) + Math.abs(m))) / c;
+      return c > 0;
     }
-    if (!(fa === fa && fb === fb) || (fa >= 0 && fb < 0)) return undefined;
-    if (fa >= 0) { i--; fb = fa; fa = slopeGap(i * CELL); } else { i++; fa = fb; fb = slopeGap((i + 1) * CELL); }
+    t -= step;
   }
-  return undefined;
-}
-
-/** cellNewton (roots.ts) of slopeGapNewton, its own copy of the rule (see there). */
-function cellNewtonSlope(cell: SignCell, out: Float64Array): number | undefined {
-  let lo = cell.a, hi = cell.b;
-  let t = cell.a - (cell.fa * (cell.b - cell.a)) / (cell.fb - cell.fa);
-  if (!(t > lo && t < hi)) t = 0.5 * (lo + hi);
-  for (let iter = 0; iter < 60; iter++) {
-    const f = slopeGapNewton(t, out);
-    if (f === 0) return t;
-    if (f < 0) lo = t; else hi = t;
-    const step = f / out[0];
-    if (Math.abs(step) <= NEWTON_STEP * Math.max(1, Math.abs(t))) return Math.min(Math.max(t - step, lo), hi);
-    let next = t - step;
-    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-    if (next === t) return t;
-    t = next;
-  }
-  return undefined;
+  return false;
 }
 
 /**
- * The point of branch `br` where g' = m, the same bits from any estimate within a few cells of it:
- * Newton in its sign cell (roots.ts). Undefined if that cell is not found or leaves the branch.
+ * The point of branch `br` where g' = m, the same bits from any estimate near it: the canonical
+ * final solve of roots.ts (its own copy of the rule; the sign at a boundary is that of g' - m).
+ * Undefined when it cannot be made canonical or its cell leaves the branch.
  */
 function canonicalSlopePoint(iso: Isotherm, br: Branch, m: number, estimate: number): number | undefined {
-  solveIso = iso;
-  state[SOLVE_M] = m;
-  const cell = signCellSlope(estimate, innerCell);
-  if (!cell || !(cell.a > br.a && cell.b < br.b)) return undefined;
-  return cellNewtonSlope(cell, innerSlope);
+  let i = Math.floor(estimate / CELL);
+  for (let attempt = 0; attempt < 2; attempt++) {
+    if (!newtonSlope(iso, br, m, i)) return undefined;
+    const r = slopeOut[0];
+    let k = clearCell(r);
+    if (k !== k) {
+      const ib = Math.round(r / CELL);
+      splitRatio(ib * CELL, xyCell);
+      const f = iso.dg(xyCell[0], xyCell[1]) - m;
+      k = f < 0 ? ib : f >= 0 ? ib - 1 : NaN;
+    }
+    if (k === i) return slopeOut[1] <= ROOT_NOISE && i * CELL > br.a && (i + 1) * CELL < br.b ? r : undefined;
+    i = k;
+  }
+  return undefined;
 }
 
 /**
- * G(u1) = mu_A(u1) - mu_A(u2) with u2 on the partner branch where g'(u2) = g'(u1), and (with `out`)
- * dG/du1 = c1 (x2 - x1); NaN where u2 cannot be found.
+ * newtonTangent's results: u' and u'' of the common tangent, and the errors the rounding of the
+ * equations allows in each.
  */
-function tangentGap(u: number, out?: Float64Array): number {
-  const iso = solveIso;
-  splitRatio(u, xyCell);
-  const x1 = xyCell[0], y1 = xyCell[1];
-  iso.derivatives(x1, y1, derTangent);
-  const m = derTangent[1];
-  const mu1 = derTangent[0] - x1 * m;
-  const c1 = x1 * y1 * derTangent[2];
-  // The next partner point is near the last one, moved by (m - m_last) / (d g'/du): one Newton step
-  // (the answer does not depend on the estimate, only the walk to its cell does).
-  const step = (m - state[PARTNER_M]) / state[PARTNER_RATE];
-  const v = canonicalSlopePoint(iso, partnerBranch, m, Number.isFinite(step) ? state[PARTNER_ESTIMATE] + step : state[PARTNER_ESTIMATE]);
-  if (v === undefined) return NaN;
-  state[PARTNER_ESTIMATE] = v;
-  state[PARTNER_M] = m;
-  state[PARTNER_RATE] = innerSlope[0];
-  splitRatio(v, xyCell);
-  const x2 = xyCell[0], y2 = xyCell[1];
-  if (out) out[0] = c1 * (x2 - x1);
-  return mu1 - (iso.g(x2, y2) - x2 * m);
-}
+const tangentOut = new Float64Array(4);
 
-/** signCell (roots.ts) of tangentGap, its own copy of the rule (see there). */
-function signCellTangent(estimate: number, out: SignCell): SignCell | undefined {
-  let i = Math.floor(estimate / CELL);
-  let fa = tangentGap(i * CELL), fb = tangentGap((i + 1) * CELL);
-  for (let walk = 0; walk < 16; walk++) {
-    if (fa < 0 && fb >= 0) {
-      out.a = i * CELL; out.b = (i + 1) * CELL; out.fa = fa; out.fb = fb;
-      return out;
+/**
+ * newton (roots.ts) of the common-tangent equations in (u', u'') jointly (as tangentNewton), from the
+ * midpoints of cells i1 (branch j) and i2 (branch k), its own copy of the rule in two unknowns: it
+ * stops when both steps are below NEWTON_STEP max(1, |u|). The error bound: the equations' rounding
+ * (ROUNDING of RT (4 + |u'| + |u''|) + |g| + |g'| + |g' - RT u| at both points) through the inverse
+ * Jacobian, at most that over c (x'' - x') for each (c = x y g''). False when a step leaves a
+ * branch, c is not positive at the last point, or it does not settle.
+ */
+function newtonTangent(iso: Isotherm, j: Branch, k: Branch, i1: number, i2: number): boolean {
+  let u1 = (i1 + 0.5) * CELL, u2 = (i2 + 0.5) * CELL;
+  for (let iter = 0; iter < 30; iter++) {
+    if (!(u1 > j.a && u1 < j.b && u2 > k.a && u2 < k.b && u1 > -U_LIMIT && u2 < U_LIMIT)) return false;
+    splitRatio(u1, xyCell);
+    const x1 = xyCell[0], y1 = xyCell[1];
+    splitRatio(u2, xyCell);
+    const x2 = xyCell[0], y2 = xyCell[1];
+    iso.derivatives(x1, y1, derCell1);
+    iso.derivatives(x2, y2, derCell2);
+    const d1 = derCell1[1], d2 = derCell2[1];
+    const G1 = d1 - d2;
+    const G2 = derCell1[0] - x1 * d1 - (derCell2[0] - x2 * d2);
+    const c1 = x1 * y1 * derCell1[2], c2 = x2 * y2 * derCell2[2];
+    // c1 du1 - c2 du2 = -G1;  -x1 c1 du1 + x2 c2 du2 = -G2
+    const b = -(G2 + x1 * G1) / (x2 - x1);
+    const du1 = (b - G1) / c1, du2 = b / c2;
+    if (!Number.isFinite(du1) || !Number.isFinite(du2)) return false;
+    if (Math.abs(du1) <= NEWTON_STEP * Math.max(1, Math.abs(u1)) && Math.abs(du2) <= NEWTON_STEP * Math.max(1, Math.abs(u2))) {
+      const RT = iso.RT;
+      const noise = (ROUNDING * (RT * (4 + Math.abs(u1) + Math.abs(u2)) + Math.abs(derCell1[0]) + Math.abs(derCell2[0]) + Math.abs(d1) + Math.abs(d2)
+        + Math.abs(d1 - RT * u1) + Math.abs(d2 - RT * u2))) / (x2 - x1);
+      tangentOut[0] = u1 + du1;
+      tangentOut[1] = u2 + du2;
+      tangentOut[2] = noise / c1;
+      tangentOut[3] = noise / c2;
+      return c1 > 0 && c2 > 0 && x2 > x1;
     }
-    if (!(fa === fa && fb === fb) || (fa >= 0 && fb < 0)) return undefined;
-    if (fa >= 0) { i--; fb = fa; fa = tangentGap(i * CELL); } else { i++; fa = fb; fb = tangentGap((i + 1) * CELL); }
+    u1 += du1;
+    u2 += du2;
   }
-  return undefined;
+  return false;
 }
 
-/** cellNewton (roots.ts) of tangentGap, its own copy of the rule (see there). */
-function cellNewtonTangent(cell: SignCell, out: Float64Array): number | undefined {
-  let lo = cell.a, hi = cell.b;
-  let t = cell.a - (cell.fa * (cell.b - cell.a)) / (cell.fb - cell.fa);
-  if (!(t > lo && t < hi)) t = 0.5 * (lo + hi);
-  for (let iter = 0; iter < 60; iter++) {
-    const f = tangentGap(t, out);
-    if (f === 0) return t;
-    if (f < 0) lo = t; else hi = t;
-    const step = f / out[0];
-    if (Math.abs(step) <= NEWTON_STEP * Math.max(1, Math.abs(t))) return Math.min(Math.max(t - step, lo), hi);
-    let next = t - step;
-    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-    if (next === t) return t;
-    t = next;
-  }
-  return undefined;
+/**
+ * The cell of the common tangent's u' (`low`) or u'' from (r1, r2) within the solve's error of it
+ * (roots.ts). Near a boundary b the sign is that of F(g'(b)) = mu_A(x_j) - mu_A(x_k) at the slope
+ * g'(b), with the other point where g' = g'(b) on its branch (canonicalSlopePoint): F rises with the
+ * slope, so F < 0 puts the root above b. NaN when that point is not found.
+ */
+function tangentCell(iso: Isotherm, j: Branch, k: Branch, r1: number, r2: number, low: boolean): number {
+  const r = low ? r1 : r2;
+  const i = clearCell(r);
+  if (i === i) return i;
+  const ib = Math.round(r / CELL), b = ib * CELL;
+  splitRatio(b, xyCell);
+  const xb = xyCell[0];
+  iso.derivatives(xb, xyCell[1], derSide);
+  const m = derSide[1], muB = derSide[0] - xb * m;
+  const other = low ? canonicalSlopePoint(iso, k, m, r2) : canonicalSlopePoint(iso, j, m, r1);
+  if (other === undefined) return NaN;
+  splitRatio(other, xyCell);
+  const xo = xyCell[0];
+  iso.derivatives(xo, xyCell[1], derSide);
+  const muOther = derSide[0] - xo * m;
+  const F = low ? muB - muOther : muOther - muB;
+  return F < 0 ? ib : F >= 0 ? ib - 1 : NaN;
 }
 
 /**
  * The gap between branches j and k, the same bits from any estimate (u1, u2) close to it: what a
- * warm start or the sweep found only chooses where the work starts. In u1 on branch j, with u2 on
- * branch k where g'(u2) = g'(u1) (canonicalSlopePoint), the common tangent is the root of
- *   G(u1) = mu_A(u1) - mu_A(u2),  dG/du1 = c1 (x2 - x1) > 0  (c = x y g''),
- * solved by Newton in its sign cell (roots.ts). Undefined when a cell is not found (the caller
- * keeps its own answer or solves again from scratch), or near U_LIMIT (its own solve says why).
+ * warm start or the sweep found only chooses where the work starts. The canonical final solve of
+ * roots.ts in two unknowns: Newton on the common-tangent equations from the midpoints of the cells
+ * of u' and u'' (newtonTangent), each cell found as in roots.ts (tangentCell). Undefined when it
+ * cannot be made canonical (the caller keeps its own answer or solves again from scratch), or near
+ * U_LIMIT (its own solve says why).
  */
 export function canonicalGap(iso: Isotherm, j: Branch, k: Branch, u1: number, u2: number): Gap | undefined {
   if (!(Math.abs(u1) < U_LIMIT - 1 && Math.abs(u2) < U_LIMIT - 1)) return undefined;
-  solveIso = iso;
-  partnerBranch = k;
-  state[PARTNER_ESTIMATE] = u2;
-  state[PARTNER_RATE] = NaN;
-  const cell = signCellTangent(u1, outerCell);
-  if (!cell || !(cell.a > j.a && cell.b < j.b)) return undefined;
-  const root = cellNewtonTangent(cell, outerSlope);
-  if (root === undefined) return undefined;
-  const low = pointAt(root);
-  const slope = iso.dg(low.x, low.y);
-  const step = (slope - state[PARTNER_M]) / state[PARTNER_RATE];
-  const v = canonicalSlopePoint(iso, k, slope, Number.isFinite(step) ? state[PARTNER_ESTIMATE] + step : u2);
-  if (v === undefined) return undefined;
-  return { low, high: pointAt(v), slope };
+  let i1 = Math.floor(u1 / CELL), i2 = Math.floor(u2 / CELL);
+  for (let attempt = 0; attempt < 2; attempt++) {
+    if (!newtonTangent(iso, j, k, i1, i2)) return undefined;
+    const r1 = tangentOut[0], r2 = tangentOut[1], noise1 = tangentOut[2], noise2 = tangentOut[3];
+    const k1 = tangentCell(iso, j, k, r1, r2, true), k2 = tangentCell(iso, j, k, r1, r2, false);
+    if (k1 === i1 && k2 === i2) {
+      if (!(noise1 <= ROOT_NOISE && noise2 <= ROOT_NOISE && i1 * CELL > j.a && (i1 + 1) * CELL < j.b && i2 * CELL > k.a && (i2 + 1) * CELL < k.b)) return undefined;
+      const low = pointAt(r1);
+      return { low, high: pointAt(r2), slope: iso.dg(low.x, low.y) };
+    }
+    i1 = k1;
+    i2 = k2;
+  }
+  return undefined;
 }
 
 /**
@@ -500,8 +475,8 @@ export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
 /**
  * The phase map at a temperature next to `prev`, when the caller knows that no critical point lies
  * between the two temperatures (so no gap opens or closes and no unstable interval appears): the
- * spinodal points are followed by Newton's method on q and the gap by `tangentNewton`, and each
- * then ends in the same final solve as phaseMap's (spinodalRootNear, canonicalGap), so the answer
+ * spinodal points are followed by Newton's method on q and the gap by the first solve of
+ * canonicalGap from its estimate, and each then ends in the same final solve as phaseMap's (spinodalRootNear, canonicalGap), so the answer
  * is phaseMap's, bit for bit, whatever `prev` was. Covers the common cases of no gap and of one
  * gap over one unstable interval; returns undefined (the caller then solves from scratch) for
  * anything else or when a step does not settle. `before` and `beforeThat`, the maps of the two
@@ -514,9 +489,10 @@ export function continueMap(iso: Isotherm, prev: PhaseMap, before?: PhaseMap, be
   if (!followable(prev)) return undefined;
   const b = before && followable(before) ? before : undefined;
   const c = b && beforeThat && followable(beforeThat) ? beforeThat : undefined;
-  let e1: number | undefined = ahead(iso.T, 0, prev, b, c);
+  aheadWeights(iso.T, prev, b, c);
+  let e1: number | undefined = ahead(0, prev, b, c);
   if (!aheadSettled) e1 = followRoot(iso, e1);
-  let e2: number | undefined = ahead(iso.T, 1, prev, b, c);
+  let e2: number | undefined = ahead(1, prev, b, c);
   if (!aheadSettled) e2 = followRoot(iso, e2);
   if (e1 === undefined || e2 === undefined) return undefined;
   const s1 = spinodalRootNear(iso, e1), s2 = spinodalRootNear(iso, e2);
@@ -527,9 +503,8 @@ export function continueMap(iso: Isotherm, prev: PhaseMap, before?: PhaseMap, be
   j.b = s1; j.slopeHigh = iso.dg(spinodal[0].x, spinodal[0].y); j.guess = s1 - 1;
   k.a = s2; k.slopeLow = iso.dg(spinodal[1].x, spinodal[1].y); k.guess = s2 + 1;
   if (nearCritical(iso, j, k)) return { T: iso.T, gaps: [criticalGap(iso, s1, s2)], spinodal };
-  const g1 = ahead(iso.T, 2, prev, b, c), settled1 = aheadSettled, g2 = ahead(iso.T, 3, prev, b, c);
-  const gap = settled1 && aheadSettled ? canonicalGap(iso, j, k, g1, g2)
-    : tangentNewton(iso, g1, g2, s1, s2) ? canonicalGap(iso, j, k, tangentEstimate[0], tangentEstimate[1]) : undefined;
+  // canonicalGap's first solve starts from the cells of the estimates, settled or not
+  const gap = canonicalGap(iso, j, k, ahead(2, prev, b, c), ahead(3, prev, b, c));
   return gap && { T: iso.T, gaps: [gap], spinodal };
 }
 const lowBranch: Branch = { a: -Infinity, b: 0, slopeLow: -Infinity, slopeHigh: 0, guess: 0 };
@@ -547,24 +522,38 @@ function pointOf(map: PhaseMap, which: number): number {
 
 /** Whether the last `ahead` answer has settled (see SETTLED). */
 let aheadSettled = false;
+/**
+ * The weights of u0, u1, u2 (the point at prev.T, before.T, beforeThat.T) in Lagrange's polynomial
+ * through them at T, and of u0 - u1 in the linear extrapolation: the same for every point of a row.
+ */
+const weights = new Float64Array(4);
+
+/** Sets `weights` for the row at T (see ahead). */
+function aheadWeights(T: number, p: PhaseMap, b?: PhaseMap, c?: PhaseMap): void {
+  if (!b) return;
+  const t0 = p.T, t1 = b.T;
+  weights[3] = (T - t0) / (t0 - t1);
+  if (!c) return;
+  const t2 = c.T;
+  weights[0] = ((T - t1) * (T - t2)) / ((t0 - t1) * (t0 - t2));
+  weights[1] = ((T - t0) * (T - t2)) / ((t1 - t0) * (t1 - t2));
+  weights[2] = ((T - t0) * (T - t1)) / ((t2 - t0) * (t2 - t1));
+}
 
 /**
  * Point `which` at T, extrapolated from the maps at up to three earlier temperatures (Lagrange's
- * polynomial through them): only a starting point, so anything not finite or far from the last
- * answer gives way to the last answer itself. Sets aheadSettled.
+ * polynomial through them, weights from aheadWeights): only a starting point, so anything not
+ * finite or far from the last answer gives way to the last answer itself. Sets aheadSettled.
  */
-function ahead(T: number, which: number, p: PhaseMap, b?: PhaseMap, c?: PhaseMap): number {
+function ahead(which: number, p: PhaseMap, b?: PhaseMap, c?: PhaseMap): number {
   aheadSettled = false;
   const u0 = pointOf(p, which);
   if (!b) return u0;
-  const t0 = p.T, t1 = b.T, u1 = pointOf(b, which);
-  const linear = u0 + ((u0 - u1) * (T - t0)) / (t0 - t1);
+  const u1 = pointOf(b, which);
+  const linear = u0 + (u0 - u1) * weights[3];
   let u = linear;
   if (c) {
-    const t2 = c.T, u2 = pointOf(c, which);
-    u = (u0 * (T - t1) * (T - t2)) / ((t0 - t1) * (t0 - t2))
-      + (u1 * (T - t0) * (T - t2)) / ((t1 - t0) * (t1 - t2))
-      + (u2 * (T - t0) * (T - t1)) / ((t2 - t0) * (t2 - t1));
+    u = u0 * weights[0] + u1 * weights[1] + pointOf(c, which) * weights[2];
     aheadSettled = Math.abs(u - linear) <= SETTLED * Math.max(1, Math.abs(u));
   }
   if (Number.isFinite(u) && Math.abs(u - u0) < 0.25) return u;

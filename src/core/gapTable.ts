@@ -34,17 +34,18 @@ export function gapTable(model: BinaryModel, temperatures: readonly number[], n:
   const Ts = temperatures.slice();
   const rows = Ts.length;
   const T1 = Ts[0], T2 = Ts[rows - 1];
-  const critAt = new Map<number, CriticalPoint>();
+  // the critical point replacing row i, if any (an array: read on every row)
+  const critAt: Array<CriticalPoint | undefined> = new Array(rows).fill(undefined);
   const [tMin, tMax] = T1 < T2 ? [T1, T2] : [T2, T1];
   for (const c of critical) {
     if (!(c.T > tMin && c.T < tMax) || rows < 3) continue;
     let best = -1;
     for (let i = 1; i < rows - 1; i++) {
-      if (critAt.has(i)) continue;
+      if (critAt[i]) continue;
       if (best < 0 || Math.abs(Ts[i] - c.T) < Math.abs(Ts[best] - c.T)) best = i;
     }
     if (best >= 0) {
-      critAt.set(best, c);
+      critAt[best] = c;
       Ts[best] = c.T;
     }
   }
@@ -61,13 +62,13 @@ export function gapTable(model: BinaryModel, temperatures: readonly number[], n:
     // Earlier answers are followed only across no critical point (then no gap opens or closes).
     const across = hint !== undefined && criticalBetween(hint.T, T);
     const map = (hint && !across && continueMap(iso, hint, before, beforeThat)) || phaseMap(iso, hint);
-    if (!critAt.has(i)) {
+    const c = critAt[i];
+    if (!c) {
       beforeThat = across ? undefined : before;
       before = across ? undefined : hint;
       hint = map;
     }
     let gaps: Gap[] = map.gaps;
-    const c = critAt.get(i);
     if (c) {
       // The gap closing here, exactly at its critical point (the solve may show it as a sliver).
       const p: Point = pointAt(logRatio(c.x));

@@ -36,16 +36,37 @@ export const NEAR_CRITICAL_DROP = 1e-11;
 /**
  * Width of the cells of u that make a final solve canonical: 2^-20, an exact binary fraction,
  * far wider than the rounding of a root (about 1e-15), far narrower than what separates roots.
+ * A final solve is Newton's method from the midpoint of the root's cell (roots.ts).
  */
 export const CELL = 2 ** -20;
-/** A Newton estimate may start a canonical final solve after a step below ESTIMATE max(1, |u|): its error is then of order 1e-8, within a cell or two. */
+/**
+ * A root closer than CELL_GUARD (CELL / 32) to a cell boundary is placed by the sign of its
+ * function at that boundary alone; farther, by where the final solve put it. Four times the error
+ * a final solve is accepted with (ROOT_NOISE), narrow enough that only about 1 final solve in 16
+ * needs that extra evaluation.
+ */
+export const CELL_GUARD = CELL / 32;
+/**
+ * The rounding of a computed g or g' is taken as at most ROUNDING (2^-46, 64 units in the last
+ * place) of the sizes of its terms (those of the ideal part, RT (2 + |u|), and the values of g, g'
+ * and the excess part of g'); a final solve is accepted only when the error of the root this
+ * allows is below ROOT_NOISE = CELL_GUARD / 4 (else the caller solves the slow way: next to a
+ * critical point, where the tangent is ill-conditioned; for the benchmark's systems within 0.3-1 K
+ * of it, and 3-10 K for Flory-Huggins, whose terms are about RT / N, far below the RT (2 + |u|)
+ * taken for them).
+ */
+export const ROUNDING = 2 ** -46;
+export const ROOT_NOISE = CELL_GUARD / 4;
+/** A Newton estimate may start a canonical final solve after a step below ESTIMATE max(1, |u|): its error is then of order 1e-8, within the cell or the next. */
 export const ESTIMATE = 1e-4;
 
 /**
- * An extrapolation from three temperatures is taken as the estimate itself (no Newton step) when
- * its second-order part (quadratic minus linear extrapolation) is below SETTLED: its error, of
- * third order, is then far below a cell (1e-8 in the benchmark's 1000-row table). A worse estimate
- * only costs a longer walk to its cell: the answer is the final solve's.
+ * An extrapolation of a spinodal point from three temperatures is taken as the estimate itself (no
+ * Newton step) when its second-order part (quadratic minus linear extrapolation) is below SETTLED:
+ * its error, of third order, is then far below a cell (1e-8 in the benchmark's 1000-row table).
+ * A worse estimate only costs a longer walk to its cell: the answer is the final solve's. (The
+ * gap's estimate always goes to its final solve as it is: a first solve from the estimate's cells
+ * finds the root's cells, see roots.ts.)
  */
 export const SETTLED = 1e-5;
 /** A previous solve seeds a new one when its temperature is within WARM_WINDOW T (farther, a cold start is as fast). */

@@ -1,4 +1,5 @@
 /** Small root finders and minimisers over one variable, shared by the solvers. */
+import { CELL, CELL_GUARD } from './limits';
 
 /**
  * Brent's method (zeroin) for f(t) = 0 on [a, b] with f(a), f(b) of opposite signs (or one zero).
@@ -78,30 +79,61 @@ export function brentMin(f: (t: number) => number, a: number, b: number, tol = 1
 }
 
 /**
- * A cell [a, b] = [i CELL, (i + 1) CELL] of the CELL grid with f(a) < 0 <= f(b), and those values:
- * where a canonical final solve ends. The rule, which every copy follows operation for operation:
+ * Canonical final solves: a root of F (increasing through it, up to rounding) with the same bits
+ * from any estimate near it. Both rules below solve in a cell [i CELL, (i + 1) CELL] of u
+ * (limits.ts) that depends on the root alone, by Newton's method from a start that depends on the
+ * cell alone, until a step is below NEWTON_STEP max(1, |t|) (the error is then below 1e-20). Each
+ * function solved this way has its own copy of its rule beside it, calling it directly: V8 then
+ * inlines the function into the loop, while one shared copy called with three functions inlined
+ * none of them and boxed every number passed. Change all copies of a rule together;
+ * test/core/canonical.test.ts and the fixed-results record check their bits.
  *
- * signCell<F>(estimate, out): the cell in which F (increasing up to rounding) changes sign, walked
- * to from the cell of an estimate. The signs at cell ends are computed from the ends alone, so
- * the cell is the same from any estimate close enough to the root; undefined if the walk does not
- * end within 16 cells (an estimate too far off) or F is not a number or not increasing there. The
- * cell is written into `out` (no allocation).
+ * 1. Sign cells (curvature.ts: q = 0, where F is cheap). The rule, which every copy follows
+ * operation for operation:
+ *
+ * signCell<F>(estimate, out): the cell in which F changes sign, walked to from the cell of an
+ * estimate. The signs at cell ends are computed from the ends alone, so the cell is the same from
+ * any estimate close enough to the root; undefined if the walk does not end within 16 cells (an
+ * estimate too far off) or F is not a number or not increasing there. The cell is written into
+ * `out` (no allocation).
  *
  * cellNewton<F>(cell, out): Newton's method for F = 0 inside a sign cell, started at the secant
- * point of its ends and kept inside it (bisection when a step leaves it): the result depends on
- * the cell alone. F returns its value and writes its slope into out[0]. From the secant point of
- * a 1e-6 cell the error is of order 1e-12, so one step usually ends it; after a step below
- * NEWTON_STEP the error is below 1e-20.
+ * point of its ends and kept inside it (bisection when a step leaves it). F returns its value and
+ * writes its slope into out[0]. From the secant point of a 1e-6 cell the error is of order 1e-12,
+ * so one step usually ends it.
  *
- * Each function solved this way (binodal.ts: g' = m and the common tangent; curvature.ts: q = 0)
- * has its own copy of the two beside it, calling it directly: V8 then inlines the function into
- * the loop, while one shared copy called with three functions inlined none of them and boxed every
- * number passed (a sweep of a gap table took about 7 % longer). Change all copies together;
- * test/core/canonical.test.ts and the fixed-results record check their bits.
+ * 2. Guarded cells (binodal.ts: g' = m and the common tangent in two unknowns, a cell for each;
+ * there an evaluation of F is costly, the tangent's nesting a whole solve). The root's cell is the
+ * cell that holds it, except that a root within CELL_GUARD of a cell boundary b is placed by the
+ * sign of F(b) alone (F(b) < 0: above b). From any value r within ROOT_NOISE of the root that cell
+ * is r's own when r is at least CELL_GUARD from both its ends (clearCell), else the side F(b) gives
+ * for the boundary b next to r: the same cell from every such r (if r is clear of b, the root lies
+ * on r's side farther than CELL_GUARD - ROOT_NOISE, where F(b) has the true sign; if not, every
+ * r tests the same b). So no sign is evaluated unless r falls near a boundary (1 time in 16).
+ *
+ * newton<F>(i): Newton's method from the midpoint of cell i (usually two evaluations); it also
+ * bounds the error the rounding of F allows at the root (ROUNDING of the sizes of F's terms over F').
+ *
+ * canonical<F>(estimate): r = newton(cell of the estimate); the root's cell from r as above; if it
+ * is another cell, r = newton(that cell), whose root's cell must then be that cell. The result is
+ * r, accepted only when the bound at r is below ROOT_NOISE, F' > 0 and the cell is inside the
+ * branch sought, else undefined (the caller then solves without it, from scratch). Every check
+ * that decides the answer is made on the final cell's solve, the same on every path; an estimate
+ * only chooses where the work starts (a poor one costs a second solve).
  */
 export interface SignCell {
   a: number;
   b: number;
   fa: number;
   fb: number;
+}
+
+/**
+ * clearCell(r): the index i of r's cell [i CELL, (i + 1) CELL] when r is at least CELL_GUARD from
+ * both its ends; NaN when it is not (the caller then tests the sign at the boundary
+ * Math.round(r / CELL) CELL).
+ */
+export function clearCell(r: number): number {
+  const ib = Math.round(r / CELL);
+  return Math.abs(r - ib * CELL) < CELL_GUARD ? NaN : Math.floor(r / CELL);
 }

@@ -1,10 +1,15 @@
 /**
  * A solve gives the same bits from any start: phaseMap with a hint from another temperature,
  * continueMap from the previous row and a gap table all equal phaseMap from scratch, bit for bit
- * (toEqual on doubles is exact). Systems invented for the test.
+ * (toEqual on doubles is exact); and the gap's final solve (canonicalGap, the guarded-cell rule of
+ * src/core/roots.ts) gives the same bits from estimates in different cells, on both sides of a cell
+ * boundary, also for a gap whose boundary lies next to a cell boundary (where the side is decided
+ * by a sign test). Systems invented for the test.
  */
 import { describe, expect, it } from 'vitest';
-import { continueMap, phaseMap } from '../../src/core/binodal';
+import { canonicalGap, continueMap, convexBranches, phaseMap, type Gap } from '../../src/core/binodal';
+import { CELL, CELL_GUARD } from '../../src/core/limits';
+import { clearCell } from '../../src/core/roots';
 import { criticalPoints } from '../../src/core/critical';
 import { evenTemperatures, gapTable } from '../../src/core/gapTable';
 import type { BinaryModel } from '../../src/core/model';
@@ -41,5 +46,67 @@ describe('the same bits from any start', () => {
         expect([row.low, row.high], `gap table row at T = ${row.T}`).toEqual(gap ? [gap.low.x, gap.high.x] : [NaN, NaN]);
       });
     });
+  }
+});
+
+describe('the gap\'s final solve from estimates in different cells', () => {
+  const model = SYSTEMS[0][1];
+  const at = (T: number) => {
+    const iso = model.at(T);
+    const map = phaseMap(iso);
+    const [j, k] = convexBranches(iso, map.spinodal);
+    return { iso, gap: map.gaps[0], j, k };
+  };
+  /** The bits of canonicalGap from estimates (d1, d2) away from the gap's own (u', u''). */
+  const fromEstimates = (T: number, offsets: Array<[number, number]>) => {
+    const { iso, gap, j, k } = at(T);
+    return { gap, results: offsets.map(([d1, d2]) => canonicalGap(iso, j, k, gap.low.u + d1, gap.high.u + d2)) };
+  };
+  // estimates a few cells off, 1e-4 off (several cells: the first solve only finds the cell), and one ulp-scale apart
+  const OFFSETS: Array<[number, number]> = [[0, 0], [3 * CELL, -2 * CELL], [-1e-4, 1e-4], [-5 * CELL, 0], [0, 7 * CELL], [1e-13, -1e-13]];
+
+  it('the same bits from estimates in other cells', () => {
+    for (const T of [520, 613.7, 780, 899]) {
+      const { gap, results } = fromEstimates(T, OFFSETS);
+      for (const r of results) expect(r, `T = ${T}`).toEqual(gap);
+    }
+  });
+
+  /** A temperature at which the gap's boundary `which` lies `offset` from a cell boundary (secant on T). */
+  function placed(which: 'low' | 'high', offset: number): { T: number; b: number } {
+    let T0 = 700, T1 = 700.01;
+    const u = (T: number) => at(T).gap[which].u;
+    const b = Math.round(u(T0) / CELL) * CELL + offset;
+    let f0 = u(T0) - b, f1 = u(T1) - b;
+    for (let i = 0; i < 30 && f1 !== 0 && Math.abs(f1) > 1e-13; i++) {
+      const T2 = T1 - (f1 * (T1 - T0)) / (f1 - f0);
+      T0 = T1; f0 = f1; T1 = T2; f1 = u(T1) - b;
+    }
+    return { T: T1, b: b - offset };
+  }
+
+  for (const which of ['low', 'high'] as const) {
+    for (const offset of [0, 1e-11, -1e-11, CELL_GUARD / 2, -CELL_GUARD / 2]) {
+      it(`a gap whose ${which} boundary lies ${offset} from a cell boundary: estimates on both sides of it agree`, () => {
+        const { T, b } = placed(which, offset);
+        const { iso, gap, j, k } = at(T);
+        // placed within the guard of b (the secant on T stops within 1e-13 of its target, far inside 1.5e-8)
+        expect(Math.abs(gap[which].u - b)).toBeLessThan(CELL_GUARD);
+        expect(clearCell(gap[which].u), 'the side of b was decided by the sign test').toBeNaN();
+        // estimates just below and just above the boundary b (in the two cells it separates), and farther
+        const sides = [-1e-12, 1e-12, -0.5 * CELL, 0.5 * CELL, -3 * CELL, 3 * CELL];
+        for (const d of sides) {
+          const e1 = which === 'low' ? b + d : gap.low.u, e2 = which === 'high' ? b + d : gap.high.u;
+          const r = canonicalGap(iso, j, k, e1, e2) as Gap;
+          expect(r, `estimate ${d} from the boundary at T = ${T}`).toEqual(gap);
+        }
+        // and it is the common tangent: g'(x') = g'(x''), mu_A(x') = mu_A(x'') to the rounding of
+        // terms of a few RT (about 1e-16 RT each), with a margin of 1000
+        const d1 = iso.dg(gap.low.x, gap.low.y), d2 = iso.dg(gap.high.x, gap.high.y);
+        expect(Math.abs(d1 - d2)).toBeLessThan(1e-12 * iso.RT);
+        const mu1 = iso.g(gap.low.x, gap.low.y) - gap.low.x * d1, mu2 = iso.g(gap.high.x, gap.high.y) - gap.high.x * d2;
+        expect(Math.abs(mu1 - mu2)).toBeLessThan(1e-12 * iso.RT);
+      });
+    }
   }
 });

@@ -14,6 +14,7 @@
  * (notation of the guide to uncertainty in measurement, JCGM 100:2008). A card without u() is an
  * ordinary card; with them, its System carries the parameters' covariance in SI units.
  */
+import { movedFrom } from '../core/equilibrium';
 import { MixgapError } from '../core/errors';
 import { buildModel } from '../core/fit/parameters';
 import { orList, owns, type CardValues, type ModelFamily } from '../core/family';
@@ -304,14 +305,44 @@ export class MovedSystem {
   constructor(readonly system: System) {}
 }
 
+/** How many moved systems are kept per card (a UNCERTAINTY evaluates 2p + 2 of them). */
+const MOVED_KEPT = 16;
+/**
+ * The moved systems of each card System lately used, least recently used first, each with its
+ * parameter values in the order of the card's (`CardUncertainty.values`).
+ */
+const movedOf = new WeakMap<System, Array<{ values: number[]; moved: MovedSystem }>>();
+
 /**
  * The System of `sys` with other parameter values (SI units, as in `sys.uncertainty.values`; the
  * others kept), built by the family's own card reader (core/fit/parameters.ts buildModel). A bad
- * value is the family's MixgapError ('input').
+ * value is the family's MixgapError ('input'). The last few are kept per card, so that a column of
+ * UNCERTAINTY cells over one card builds the models of its central differences once; each model is
+ * marked as a move of the card's (core/equilibrium.ts movedFrom), so that its solves start from
+ * the card's own.
  */
 export function moved(sys: System, values: Readonly<Record<string, number>>): MovedSystem {
   const c = sys.uncertainty;
   if (!c) throw new CellFailure('#VALUE!', 'the card carries no uncertainties');
-  const { uncertainty: _, ...rest } = sys;
-  return new MovedSystem({ ...rest, model: buildModel(c.family, { ...c.values, ...values }) });
+  const keys = Object.keys(c.values);
+  const known = Object.keys(values).every((k) => k in c.values);
+  const v = keys.map((k) => (k in values ? values[k] : c.values[k]));
+  let kept = movedOf.get(sys);
+  if (!kept) movedOf.set(sys, (kept = []));
+  const i = known ? kept.findIndex((e) => e.values.every((w, j) => Object.is(w, v[j]))) : -1;
+  let m: MovedSystem;
+  if (i >= 0) {
+    const [e] = kept.splice(i, 1);
+    kept.push(e); // now the most recently used
+    m = e.moved;
+  } else {
+    const { uncertainty: _, ...rest } = sys;
+    m = new MovedSystem({ ...rest, model: buildModel(c.family, { ...c.values, ...values }) });
+    if (known) {
+      if (kept.length >= MOVED_KEPT) kept.shift();
+      kept.push({ values: v, moved: m });
+    }
+  }
+  movedFrom(m.system.model, sys.model);
+  return m;
 }

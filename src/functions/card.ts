@@ -307,11 +307,30 @@ export class MovedSystem {
 
 /** How many moved systems are kept per card (a UNCERTAINTY evaluates 2p + 2 of them). */
 const MOVED_KEPT = 16;
+
 /**
- * The moved systems of each card System lately used, least recently used first, each with its
- * parameter values in the order of the card's (`CardUncertainty.values`).
+ * The moved systems of a card System lately used, least recently used first: the card's parameter
+ * names (`CardUncertainty.values`, in its order) and, per moved system, their values in that order.
  */
-const movedOf = new WeakMap<System, Array<{ values: number[]; moved: MovedSystem }>>();
+interface MovedKept {
+  keys: string[];
+  list: Array<{ values: number[]; moved: MovedSystem }>;
+}
+const movedOf = new WeakMap<System, MovedKept>();
+
+/** The kept moved system of these values (moved to the end of the list), if any. */
+function keptMove(kept: MovedKept, values: Readonly<Record<string, number>>): MovedSystem | undefined {
+  const { keys, list } = kept;
+  for (let i = list.length - 1; i >= 0; i--) {
+    const e = list[i];
+    let same = true;
+    for (let j = 0; j < keys.length && same; j++) same = Object.is(e.values[j], values[keys[j]]);
+    if (!same) continue;
+    if (i < list.length - 1) list.push(list.splice(i, 1)[0]); // now the most recently used
+    return e.moved;
+  }
+  return undefined;
+}
 
 /**
  * The System of `sys` with other parameter values (SI units, as in `sys.uncertainty.values`; the
@@ -324,23 +343,17 @@ const movedOf = new WeakMap<System, Array<{ values: number[]; moved: MovedSystem
 export function moved(sys: System, values: Readonly<Record<string, number>>): MovedSystem {
   const c = sys.uncertainty;
   if (!c) throw new CellFailure('#VALUE!', 'the card carries no uncertainties');
-  const keys = Object.keys(c.values);
-  const known = Object.keys(values).every((k) => k in c.values);
-  const v = keys.map((k) => (k in values ? values[k] : c.values[k]));
   let kept = movedOf.get(sys);
-  if (!kept) movedOf.set(sys, (kept = []));
-  const i = known ? kept.findIndex((e) => e.values.every((w, j) => Object.is(w, v[j]))) : -1;
-  let m: MovedSystem;
-  if (i >= 0) {
-    const [e] = kept.splice(i, 1);
-    kept.push(e); // now the most recently used
-    m = e.moved;
-  } else {
+  if (!kept) movedOf.set(sys, (kept = { keys: Object.keys(c.values), list: [] }));
+  // kept by value only when `values` names every parameter of the card and no other
+  const whole = Object.keys(values).length === kept.keys.length && kept.keys.every((k) => k in values);
+  let m = whole ? keptMove(kept, values) : undefined;
+  if (!m) {
     const { uncertainty: _, ...rest } = sys;
     m = new MovedSystem({ ...rest, model: buildModel(c.family, { ...c.values, ...values }) });
-    if (known) {
-      if (kept.length >= MOVED_KEPT) kept.shift();
-      kept.push({ values: v, moved: m });
+    if (whole) {
+      if (kept.list.length >= MOVED_KEPT) kept.list.shift();
+      kept.list.push({ values: kept.keys.map((k) => values[k]), moved: m });
     }
   }
   movedFrom(m.system.model, sys.model);

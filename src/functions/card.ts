@@ -318,16 +318,16 @@ interface MovedKept {
 }
 const movedOf = new WeakMap<System, MovedKept>();
 
-/** The kept moved system of these values (moved to the end of the list), if any. */
-function keptMove(kept: MovedKept, values: Readonly<Record<string, number>>): MovedSystem | undefined {
-  const { keys, list } = kept;
+/** The kept moved system of these values (card order), moved to the end of the list; if any. */
+function keptMove(list: MovedKept['list'], v: readonly number[]): MovedSystem | undefined {
   for (let i = list.length - 1; i >= 0; i--) {
-    const e = list[i];
-    let same = true;
-    for (let j = 0; j < keys.length && same; j++) same = Object.is(e.values[j], values[keys[j]]);
-    if (!same) continue;
+    const e = list[i].values;
+    let j = 0;
+    while (j < v.length && Object.is(e[j], v[j])) j++;
+    if (j < v.length) continue;
+    const found = list[i];
     if (i < list.length - 1) list.push(list.splice(i, 1)[0]); // now the most recently used
-    return e.moved;
+    return found.moved;
   }
   return undefined;
 }
@@ -347,13 +347,14 @@ export function moved(sys: System, values: Readonly<Record<string, number>>): Mo
   if (!kept) movedOf.set(sys, (kept = { keys: Object.keys(c.values), list: [] }));
   // kept by value only when `values` names every parameter of the card and no other
   const whole = Object.keys(values).length === kept.keys.length && kept.keys.every((k) => k in values);
-  let m = whole ? keptMove(kept, values) : undefined;
+  const v = whole ? kept.keys.map((k) => values[k]) : [];
+  let m = whole ? keptMove(kept.list, v) : undefined;
   if (!m) {
     const { uncertainty: _, ...rest } = sys;
     m = new MovedSystem({ ...rest, model: buildModel(c.family, { ...c.values, ...values }) });
     if (whole) {
       if (kept.list.length >= MOVED_KEPT) kept.list.shift();
-      kept.list.push({ values: kept.keys.map((k) => values[k]), moved: m });
+      kept.list.push({ values: v, moved: m });
     }
   }
   movedFrom(m.system.model, sys.model);

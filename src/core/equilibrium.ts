@@ -86,6 +86,17 @@ function lookup(id: number, T: number): PhaseMap | undefined {
   return { T, gaps, spinodal };
 }
 
+/** The last parent map read back by parentMap: the moved models of one UNCERTAINTY share it. */
+let lastParent: { state: ModelState; map: PhaseMap } | undefined;
+
+/** The map of a moved model's parent at T, if remembered (read back once for all its moves at T). */
+function parentMap(parent: ModelState, T: number): PhaseMap | undefined {
+  if (lastParent && lastParent.state === parent && lastParent.map.T === T) return lastParent.map;
+  const map = parent.last?.T === T ? parent.last : lookup(parent.id, T);
+  if (map) lastParent = { state: parent, map };
+  return map;
+}
+
 export function checkTemperature(T: number): void {
   if (!Number.isFinite(T)) fail('range', 'the temperature must be a finite number of kelvin');
   if (!(T > 0)) fail('range', msg`the temperature must be above ${kelvin(0)} (got ${kelvin(T)})`);
@@ -103,7 +114,7 @@ export function equilibriumAt(model: BinaryModel, T: number): PhaseMap {
   const state = modelState(model);
   const known = lookup(state.id, T);
   if (known) return known;
-  const hint = (state.parent && lookup(state.parent.id, T))
+  const hint = (state.parent && parentMap(state.parent, T))
     ?? (state.last && Math.abs(state.last.T - T) < WARM_WINDOW * T ? state.last : undefined);
   const map = phaseMap(model.at(T), hint);
   state.last = map;
@@ -150,4 +161,5 @@ export function forgetSolves(): void {
   table.fill(0);
   models.clear();
   movedStates = new WeakMap();
+  lastParent = undefined;
 }

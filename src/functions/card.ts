@@ -314,6 +314,8 @@ const MOVED_KEPT = 16;
  */
 interface MovedKept {
   keys: string[];
+  /** The card's System without its uncertainties: what every moved system shares. */
+  rest: Omit<System, 'uncertainty'>;
   list: Array<{ values: number[]; moved: MovedSystem }>;
 }
 const movedOf = new WeakMap<System, MovedKept>();
@@ -344,14 +346,16 @@ export function moved(sys: System, values: Readonly<Record<string, number>>): Mo
   const c = sys.uncertainty;
   if (!c) throw new CellFailure('#VALUE!', 'the card carries no uncertainties');
   let kept = movedOf.get(sys);
-  if (!kept) movedOf.set(sys, (kept = { keys: Object.keys(c.values), list: [] }));
+  if (!kept) {
+    const { uncertainty: _, ...rest } = sys;
+    movedOf.set(sys, (kept = { keys: Object.keys(c.values), rest, list: [] }));
+  }
   // kept by value only when `values` names every parameter of the card and no other
   const whole = Object.keys(values).length === kept.keys.length && kept.keys.every((k) => k in values);
   const v = whole ? kept.keys.map((k) => values[k]) : [];
   let m = whole ? keptMove(kept.list, v) : undefined;
   if (!m) {
-    const { uncertainty: _, ...rest } = sys;
-    m = new MovedSystem({ ...rest, model: buildModel(c.family, { ...c.values, ...values }) });
+    m = new MovedSystem({ ...kept.rest, model: buildModel(c.family, whole ? values : { ...c.values, ...values }) });
     if (whole) {
       if (kept.list.length >= MOVED_KEPT) kept.list.shift();
       kept.list.push({ values: v, moved: m });

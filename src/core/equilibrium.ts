@@ -14,7 +14,8 @@ import { pointAt } from './model';
  * solve replaces what was there), packed into one preallocated Float64Array: 1 MiB in all, fixed,
  * and no garbage however many distinct temperatures a workbook recalculates. Systems are
  * remembered by parameter text, 256 at most (least recently used first out), each with its
- * critical points.
+ * critical points. A model marked as a small move of another (`movedFrom`: UNCERTAINTY's
+ * evaluations) is remembered with its model object instead, so that it pushes no system out.
  */
 const SLOTS = 4096;
 const SLOT_SIZE = 32; // [T, model id + 1, number of gaps, (u', u'', slope) per gap, u of each spinodal point, NaN]
@@ -24,13 +25,28 @@ interface ModelState {
   id: number;
   critical?: CriticalPoint[];
   last?: PhaseMap;
+  /** The state of the model this one is a small move of (see movedFrom). */
+  parent?: ModelState;
 }
 /** Each model's state by its parameter text, 256 at most (least recently used first out). */
 const models = new BoundedCache<ModelState>(256);
+/** The states of moved models (movedFrom), as long as their model objects live. */
+let movedStates = new WeakMap<BinaryModel, ModelState>();
 let nextId = 0;
 
 function modelState(model: BinaryModel): ModelState {
-  return models.get(model.key, () => ({ id: nextId++ % 2 ** 30 }));
+  return movedStates.get(model) ?? models.get(model.key, () => ({ id: nextId++ % 2 ** 30 }));
+}
+
+/**
+ * Marks `model` as `parent` with its parameters moved a little (UNCERTAINTY's evaluations, whose
+ * model objects the caller keeps while they are useful): its solves start from the parent's map at
+ * the same temperature, and it is remembered with its model object, apart from the 256 systems.
+ * Only where work starts changes: the answers are the same bits (see equilibriumAt).
+ */
+export function movedFrom(model: BinaryModel, parent: BinaryModel): void {
+  if (model === parent || movedStates.has(model)) return;
+  movedStates.set(model, { id: nextId++ % 2 ** 30, parent: modelState(parent) });
 }
 
 const bitsOf = new Float64Array(1);
@@ -70,6 +86,17 @@ function lookup(id: number, T: number): PhaseMap | undefined {
   return { T, gaps, spinodal };
 }
 
+/** The last parent map read back by parentMap: the moved models of one UNCERTAINTY share it. */
+let lastParent: { state: ModelState; map: PhaseMap } | undefined;
+
+/** The map of a moved model's parent at T, if remembered (read back once for all its moves at T). */
+function parentMap(parent: ModelState, T: number): PhaseMap | undefined {
+  if (lastParent && lastParent.state === parent && lastParent.map.T === T) return lastParent.map;
+  const map = parent.last?.T === T ? parent.last : lookup(parent.id, T);
+  if (map) lastParent = { state: parent, map };
+  return map;
+}
+
 export function checkTemperature(T: number): void {
   if (!Number.isFinite(T)) fail('range', 'the temperature must be a finite number of kelvin');
   if (!(T > 0)) fail('range', msg`the temperature must be above ${kelvin(0)} (got ${kelvin(T)})`);
@@ -77,8 +104,9 @@ export function checkTemperature(T: number): void {
 
 /**
  * Gaps and spinodal at T, solved once and remembered. The last temperature solved for the same
- * model (when within WARM_WINDOW, 10 %) gives the solve its starting points (a filled column of temperatures
- * continues from row to row); the answer is the same bits without it (phaseMap ends every gap in
+ * model (when within WARM_WINDOW, 10 %) gives the solve its starting points (a filled column of
+ * temperatures continues from row to row); a moved model (movedFrom) starts from its parent's map
+ * at T when there is one. The answer is the same bits without them (phaseMap ends every gap in
  * the same final solve), so no cell depends on what was calculated before it.
  */
 export function equilibriumAt(model: BinaryModel, T: number): PhaseMap {
@@ -86,7 +114,8 @@ export function equilibriumAt(model: BinaryModel, T: number): PhaseMap {
   const state = modelState(model);
   const known = lookup(state.id, T);
   if (known) return known;
-  const hint = state.last && Math.abs(state.last.T - T) < WARM_WINDOW * T ? state.last : undefined;
+  const hint = (state.parent && parentMap(state.parent, T))
+    ?? (state.last && Math.abs(state.last.T - T) < WARM_WINDOW * T ? state.last : undefined);
   const map = phaseMap(model.at(T), hint);
   state.last = map;
   store(state.id, map);
@@ -131,4 +160,6 @@ export function unstableAt(model: BinaryModel, T: number, n = 1): [number, numbe
 export function forgetSolves(): void {
   table.fill(0);
   models.clear();
+  movedStates = new WeakMap();
+  lastParent = undefined;
 }

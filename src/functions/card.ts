@@ -14,6 +14,7 @@
  * (notation of the guide to uncertainty in measurement, JCGM 100:2008). A card without u() is an
  * ordinary card; with them, its System carries the parameters' covariance in SI units.
  */
+import { movedFrom } from '../core/equilibrium';
 import { MixgapError } from '../core/errors';
 import { buildModel } from '../core/fit/parameters';
 import { orList, owns, type CardValues, type ModelFamily } from '../core/family';
@@ -304,14 +305,62 @@ export class MovedSystem {
   constructor(readonly system: System) {}
 }
 
+/** How many moved systems are kept per card (a UNCERTAINTY evaluates 2p + 2 of them). */
+const MOVED_KEPT = 16;
+
+/**
+ * The moved systems of a card System lately used, least recently used first: the card's parameter
+ * names (`CardUncertainty.values`, in its order) and, per moved system, their values in that order.
+ */
+interface MovedKept {
+  keys: string[];
+  /** The card's System without its uncertainties: what every moved system shares. */
+  rest: Omit<System, 'uncertainty'>;
+  list: Array<{ values: number[]; moved: MovedSystem }>;
+}
+const movedOf = new WeakMap<System, MovedKept>();
+
+/** The kept moved system of these values (card order), moved to the end of the list; if any. */
+function keptMove(list: MovedKept['list'], v: readonly number[]): MovedSystem | undefined {
+  for (let i = list.length - 1; i >= 0; i--) {
+    const e = list[i].values;
+    let j = 0;
+    while (j < v.length && Object.is(e[j], v[j])) j++;
+    if (j < v.length) continue;
+    const found = list[i];
+    if (i < list.length - 1) list.push(list.splice(i, 1)[0]); // now the most recently used
+    return found.moved;
+  }
+  return undefined;
+}
+
 /**
  * The System of `sys` with other parameter values (SI units, as in `sys.uncertainty.values`; the
  * others kept), built by the family's own card reader (core/fit/parameters.ts buildModel). A bad
- * value is the family's MixgapError ('input').
+ * value is the family's MixgapError ('input'). The last few are kept per card, so that a column of
+ * UNCERTAINTY cells over one card builds the models of its central differences once; each model is
+ * marked as a move of the card's (core/equilibrium.ts movedFrom), so that its solves start from
+ * the card's own.
  */
 export function moved(sys: System, values: Readonly<Record<string, number>>): MovedSystem {
   const c = sys.uncertainty;
   if (!c) throw new CellFailure('#VALUE!', 'the card carries no uncertainties');
-  const { uncertainty: _, ...rest } = sys;
-  return new MovedSystem({ ...rest, model: buildModel(c.family, { ...c.values, ...values }) });
+  let kept = movedOf.get(sys);
+  if (!kept) {
+    const { uncertainty: _, ...rest } = sys;
+    movedOf.set(sys, (kept = { keys: Object.keys(c.values), rest, list: [] }));
+  }
+  // kept by value only when `values` names every parameter of the card and no other
+  const whole = Object.keys(values).length === kept.keys.length && kept.keys.every((k) => k in values);
+  const v = whole ? kept.keys.map((k) => values[k]) : [];
+  let m = whole ? keptMove(kept.list, v) : undefined;
+  if (!m) {
+    m = new MovedSystem({ ...kept.rest, model: buildModel(c.family, whole ? values : { ...c.values, ...values }) });
+    if (whole) {
+      if (kept.list.length >= MOVED_KEPT) kept.list.shift();
+      kept.list.push({ values: v, moved: m });
+    }
+  }
+  movedFrom(m.system.model, sys.model);
+  return m;
 }

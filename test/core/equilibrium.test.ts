@@ -2,7 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import { phaseMap } from '../../src/core/binodal';
 import { criticalPoints } from '../../src/core/critical';
-import { checkTemperature, criticalPointsOf, equilibriumAt, forgetSolves, gapAt, unstableAt } from '../../src/core/equilibrium';
+import { checkTemperature, criticalPointsOf, equilibriumAt, forgetSolves, gapAt, movedFrom, unstableAt } from '../../src/core/equilibrium';
 import { redlichKister, regularSolution } from '../../src/core/models/redlichKister';
 import { failureReason } from './support/compare';
 import { regularBinodal, regularSpinodal } from './support/closedForms';
@@ -31,6 +31,27 @@ describe('equilibriumAt and friends', () => {
     const m = redlichKister([{ a: -5000, b: 0, c: 0 }, { a: 0, b: 0, c: 0 }, { a: 60000, b: 0, c: 0 }]);
     expect(equilibriumAt(m, 600)).toEqual(phaseMap(m.at(600)));
     expect(criticalPointsOf(m)).toEqual(criticalPoints(m));
+  });
+
+  it('a moved model (movedFrom) gives the same bits whether or not its parent was solved first, and the closed form', () => {
+    // Hillert (2008): regular-solution binodal (see binodal.test.ts); the parent's map only starts
+    // the moved model's solve, so the answer must be the same bits as a solve from nothing.
+    const mapBits = (m: ReturnType<typeof equilibriumAt>) => JSON.stringify([m.gaps.map((g) => [g.low.u, g.high.u, g.slope]), m.spinodal.map((p) => p.u)]);
+    for (const d of [2, -150, 300, 1500]) {
+      for (const T of [650, 800, 1000]) {
+        forgetSolves();
+        const alone = mapBits(equilibriumAt(regularSolution(omega + d), T));
+        forgetSolves();
+        const moved = regularSolution(omega + d);
+        equilibriumAt(model, T);
+        movedFrom(moved, model);
+        const m = equilibriumAt(moved, T);
+        expect(mapBits(m)).toBe(alone);
+        expect(mapBits(m)).toBe(mapBits(phaseMap(moved.at(T))));
+        const b = regularBinodal(omega + d, T);
+        expect(Math.abs(m.gaps[0].low.x - b.x) / b.x).toBeLessThan(1e-12); // rounding-limited, as above
+      }
+    }
   });
 
   it('failure reasons', () => {

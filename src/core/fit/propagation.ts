@@ -148,13 +148,13 @@ function bandChecked(
   for (const sign of [1, -1]) {
     const t = theta.map((v, j) => v + sign * delta[j]);
     const r = at(t);
-    const where = `${names.map((n, j) => `${n} = ${t[j].toPrecision(6)}`).join(', ')}`;
+    const where = () => names.map((n, j) => `${n} = ${t[j].toPrecision(6)}`).join(', ');
     if (typeof r !== 'number') {
-      fail('none', `${what} does not exist everywhere within ${k} ${band} (at ${where}: ${r.message}), so it has no uncertainty to state; ${remedy}`);
+      fail('none', `${what} does not exist everywhere within ${k} ${band} (at ${where()}: ${r.message}), so it has no uncertainty to state; ${remedy}`);
     }
     const off = Math.abs(r - (value + sign * k * sigma));
     if (!(off <= Math.max(MAX_NONLINEARITY * k * sigma, ROUNDING * Math.abs(value)))) {
-      fail('range', `${what} is too far from linear within ${k} ${band} (at ${where} it is ${r.toPrecision(6)}, the linear estimate ${(value + sign * k * sigma).toPrecision(6)}): linear propagation would misstate its uncertainty, as near a critical point`);
+      fail('range', `${what} is too far from linear within ${k} ${band} (at ${where()} it is ${r.toPrecision(6)}, the linear estimate ${(value + sign * k * sigma).toPrecision(6)}): linear propagation would misstate its uncertainty, as near a critical point`);
     }
   }
   return { value, sigma, gradient };

@@ -1,4 +1,4 @@
-import { phaseMap, type Gap, type PhaseMap } from './binodal';
+import { continueMap, phaseMap, type Gap, type PhaseMap } from './binodal';
 import { criticalPoint, criticalPoints, noCriticalPoint, type CriticalPoint } from './critical';
 import { BoundedCache } from './boundedCache';
 import { fail, kelvin, msg } from './errors';
@@ -27,6 +27,8 @@ interface ModelState {
   last?: PhaseMap;
   /** The state of the model this one is a small move of (see movedFrom). */
   parent?: ModelState;
+  /** For a move of a central difference (see movedFrom): the model it is followed from. */
+  follows?: BinaryModel;
 }
 /** Each model's state by its parameter text, 256 at most (least recently used first out). */
 const models = new BoundedCache<ModelState>(256);
@@ -43,10 +45,18 @@ function modelState(model: BinaryModel): ModelState {
  * model objects the caller keeps while they are useful): its solves start from the parent's map at
  * the same temperature, and it is remembered with its model object, apart from the 256 systems.
  * Only where work starts changes: the answers are the same bits (see equilibriumAt).
+ *
+ * With `step` (a central difference's move, a hundredth of a standard uncertainty: see
+ * core/fit/propagation.ts), a map of one gap over one unstable interval is followed from the
+ * parent's own map at T by continueMap (its spinodal points and gap by Newton's method, ending in
+ * the same final solves as phaseMap's), without sampling the curvature anew: so small a move
+ * opens or closes no gap except next to a critical condition, where the same UNCERTAINTY's
+ * band-end evaluations (solved in full) find the result far from linear and refuse it. The
+ * parent's map is computed when missing, so the path taken never depends on what ran before.
  */
-export function movedFrom(model: BinaryModel, parent: BinaryModel): void {
+export function movedFrom(model: BinaryModel, parent: BinaryModel, step = false): void {
   if (model === parent || movedStates.has(model)) return;
-  movedStates.set(model, { id: nextId++ % 2 ** 30, parent: modelState(parent) });
+  movedStates.set(model, { id: nextId++ % 2 ** 30, parent: modelState(parent), follows: step ? parent : undefined });
 }
 
 const bitsOf = new Float64Array(1);
@@ -114,9 +124,17 @@ export function equilibriumAt(model: BinaryModel, T: number): PhaseMap {
   const state = modelState(model);
   const known = lookup(state.id, T);
   if (known) return known;
+  const iso = model.at(T);
+  if (state.follows) {
+    const from = equilibriumAt(state.follows, T);
+    const map = continueMap(iso, from) ?? phaseMap(iso, from);
+    state.last = map;
+    store(state.id, map);
+    return map;
+  }
   const hint = (state.parent && parentMap(state.parent, T))
     ?? (state.last && Math.abs(state.last.T - T) < WARM_WINDOW * T ? state.last : undefined);
-  const map = phaseMap(model.at(T), hint);
+  const map = phaseMap(iso, hint);
   state.last = map;
   store(state.id, map);
   return map;

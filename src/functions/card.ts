@@ -15,6 +15,7 @@
  * ordinary card; with them, its System carries the parameters' covariance in SI units.
  */
 import { movedFrom } from '../core/equilibrium';
+import { UNCERTAINTY_STEP } from '../core/fit/propagation';
 import { MixgapError } from '../core/errors';
 import { buildModel } from '../core/fit/parameters';
 import { orList, owns, type CardValues, type ModelFamily } from '../core/family';
@@ -335,6 +336,19 @@ function keptMove(list: MovedKept['list'], v: readonly number[]): MovedSystem | 
 }
 
 /**
+ * Whether `values` move the card's parameters by no more than a central difference's step
+ * (UNCERTAINTY_STEP of a standard uncertainty, core/fit/propagation.ts; twice that, for rounding)
+ * and leave every parameter without an uncertainty as it is.
+ */
+function isStep(c: CardUncertainty, values: Readonly<Record<string, number>>): boolean {
+  for (const key in values) {
+    const j = c.names.indexOf(key), d = Math.abs(values[key] - c.values[key]);
+    if (j < 0 ? d !== 0 : !(d <= 2 * UNCERTAINTY_STEP * Math.sqrt(c.covariance[j][j]))) return false;
+  }
+  return true;
+}
+
+/**
  * The System of `sys` with other parameter values (SI units, as in `sys.uncertainty.values`; the
  * others kept), built by the family's own card reader (core/fit/parameters.ts buildModel). A bad
  * value is the family's MixgapError ('input'). The last few are kept per card, so that a column of
@@ -361,6 +375,6 @@ export function moved(sys: System, values: Readonly<Record<string, number>>): Mo
       kept.list.push({ values: v, moved: m });
     }
   }
-  movedFrom(m.system.model, sys.model);
+  movedFrom(m.system.model, sys.model, isStep(c, values));
   return m;
 }

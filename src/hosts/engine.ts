@@ -14,7 +14,7 @@ import { argumentType, callArguments } from './engine-arguments';
 import type { AstNode } from './engine-arguments';
 import { NAMESPACE } from '../functions/namespace';
 import { callSafely, toScalar } from './engine-errors';
-import { indexDependencyGraph } from './engine-graph-index';
+import { indexGraphOf } from './engine-graph-index';
 import { shapeOfCall, toRange } from './engine-spill';
 import type { SpillShape, SpillShapeResult } from './engine-spill';
 
@@ -115,6 +115,13 @@ function mixgapPlugin(entries: Entry[], spillShape: SpillShape): { plugin: typeo
   class MixgapPlugin extends FunctionPlugin {
     static override implementedFunctions = implemented;
 
+    constructor(...args: ConstructorParameters<typeof FunctionPlugin>) {
+      super(...args);
+      // The engine makes its plugins before it loads any cell: the graph it will fill is there now.
+      // Loading N formulas that read one card then takes linear, not quadratic, time.
+      indexGraphOf((this as unknown as { dependencyGraph?: { graph?: unknown } }).dependencyGraph?.graph);
+    }
+
     /** Array size of a call, from the literal arguments in the formula text. */
     spillSize(entry: Entry, ast: ProcedureAst): ArraySize {
       const shape = shapeOf(entry, ast);
@@ -200,7 +207,6 @@ export function buildEngine(
   const { plugin, translations } = mixgapPlugin(entriesOf(metadata, implementations), spillShape);
   // Function names live in the (global) language package; the plugin itself is per engine.
   HyperFormula.getLanguage(config.language ?? 'enGB').extendFunctions(translations);
-  indexDependencyGraph(); // loading N formulas that read one card: linear, not quadratic, time
   const fullConfig = {
     ...ENGINE_DEFAULTS,
     ...config,

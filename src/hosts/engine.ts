@@ -14,6 +14,8 @@ import { argumentType, callArguments } from './engine-arguments';
 import type { AstNode } from './engine-arguments';
 import { NAMESPACE } from '../functions/namespace';
 import { callSafely, toScalar } from './engine-errors';
+import { shareGroupParses } from './engine-formula-groups';
+import type { FormulaGroupOf } from './engine-formula-groups';
 import { indexGraphOf } from './engine-graph-index';
 import { shapeOfCall, toRange } from './engine-spill';
 import type { SpillShape, SpillShapeResult } from './engine-spill';
@@ -107,7 +109,11 @@ function entriesOf(metadata: CustomFunctionsMetadata, implementations: Implement
  * A HyperFormula function plugin for `entries` (a new class per engine: its table of functions is
  * static), and the translations of their names.
  */
-function mixgapPlugin(entries: Entry[], spillShape: SpillShape): { plugin: typeof FunctionPlugin; translations: Record<string, string> } {
+function mixgapPlugin(
+  entries: Entry[],
+  spillShape: SpillShape,
+  onEngine?: (interpreter: unknown) => void,
+): { plugin: typeof FunctionPlugin; translations: Record<string, string> } {
   const implemented: ImplementedFunctions = {};
   const shapeOf = (entry: Entry, ast: ProcedureAst): SpillShapeResult =>
     !entry.spills || entry.unsupported ? { rows: 1, cols: 1 } : shapeOfCall(spillShape, entry.meta.id, entry.formulaName, ast.args);
@@ -120,6 +126,7 @@ function mixgapPlugin(entries: Entry[], spillShape: SpillShape): { plugin: typeo
       // The engine makes its plugins before it loads any cell: the graph it will fill is there now.
       // Loading N formulas that read one card then takes linear, not quadratic, time.
       indexGraphOf((this as unknown as { dependencyGraph?: { graph?: unknown } }).dependencyGraph?.graph);
+      onEngine?.(args[0]);
     }
 
     /** Array size of a call, from the literal arguments in the formula text. */
@@ -188,6 +195,8 @@ export interface EngineContent {
   sheets: Sheets;
   /** Named expressions (a `scope` is the index of a sheet in `sheets`). */
   names?: SerializedNamedExpression[];
+  /** Cells that hold one formula moved from cell to cell (./engine-formula-groups): read once per group. */
+  formulaGroups?: FormulaGroupOf;
 }
 
 /**
@@ -204,7 +213,11 @@ export function buildEngine(
   config: Partial<ConfigParams> = {},
   content?: EngineContent,
 ): HyperFormula {
-  const { plugin, translations } = mixgapPlugin(entriesOf(metadata, implementations), spillShape);
+  // A workbook's shared formulas are read once per block while the engine is built (./engine-formula-groups).
+  let stopSharing: (() => void) | undefined;
+  const groupOf = content?.formulaGroups;
+  const onEngine = groupOf && ((interpreter: unknown) => { stopSharing ??= shareGroupParses(interpreter, groupOf); });
+  const { plugin, translations } = mixgapPlugin(entriesOf(metadata, implementations), spillShape, onEngine);
   // Function names live in the (global) language package; the plugin itself is per engine.
   HyperFormula.getLanguage(config.language ?? 'enGB').extendFunctions(translations);
   const fullConfig = {
@@ -214,5 +227,9 @@ export function buildEngine(
   };
   // HyperFormula knows only TRUE() and FALSE(); these names let formulas write TRUE and FALSE as in Excel.
   const booleans: SerializedNamedExpression[] = [{ name: 'TRUE', expression: '=TRUE()' }, { name: 'FALSE', expression: '=FALSE()' }];
-  return HyperFormula.buildFromSheets(content?.sheets ?? {}, fullConfig, [...booleans, ...(content?.names ?? [])]);
+  try {
+    return HyperFormula.buildFromSheets(content?.sheets ?? {}, fullConfig, [...booleans, ...(content?.names ?? [])]);
+  } finally {
+    stopSharing?.();
+  }
 }

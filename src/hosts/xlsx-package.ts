@@ -23,6 +23,11 @@ export interface FileFormula {
   kind: string;
   /** The range of an array formula. */
   ref?: string;
+  /**
+   * For the cells of a shared formula: a number that cells holding the same formula, moved, share
+   * (one per block of the sheet). Left out where moving made a reference #REF!.
+   */
+  group?: number;
 }
 
 /** One cell element of a worksheet, with where it sits in the part's text. */
@@ -216,7 +221,8 @@ export function parseSheet(name: string, partPath: string, xml: string): SheetPa
     }
   }
   if (!sheetData) throw new Error(`the sheet part ${partPath} has no cell data`);
-  const shared = new Map<string, { slide: (rows: number, cols: number) => string; row: number; col: number }>();
+  const shared = new Map<string, { slide: (rows: number, cols: number) => string; row: number; col: number; group: number }>();
+  let groups = 0;
 
   if (!sheetData.selfClosing) {
     let row: FileRow | undefined;
@@ -233,14 +239,20 @@ export function parseSheet(name: string, partPath: string, xml: string): SheetPa
         const ref = attributeIn(xml, attrStart, attrEnd, 'ref');
         const si = kind === 'shared' ? attributeIn(xml, attrStart, attrEnd, 'si') : undefined;
         let text = unescapeXml(inner);
+        let group: number | undefined;
         if (si !== undefined) {
-          if (text) shared.set(si, { slide: slider(text), row: c.row, col: c.col });
+          if (text) shared.set(si, { slide: slider(text), row: c.row, col: c.col, group: (group = ++groups) });
           else {
             const master = shared.get(si);
-            if (master) text = master.slide(c.row - master.row, c.col - master.col);
+            if (master) {
+              text = master.slide(c.row - master.row, c.col - master.col);
+              group = master.group;
+            }
           }
+          if (group !== undefined && text.includes('#REF!')) group = undefined;
         }
         c.formula = ref ? { text, kind, ref } : { text, kind };
+        if (group !== undefined) c.formula.group = group;
       }
     };
     const local = () => (t.is('v') ? 'v' : t.is('f') ? 'f' : t.is('is') ? 'is' : t.local);

@@ -112,7 +112,8 @@ export function engineFormula(text: string): string {
   let body = text.replace(/^\s*=/, '');
   // (tested first: most formulas have no prefix, and a workbook can hold a hundred thousand)
   if (/_xl/i.test(body)) body = body.replace(ADD_IN_PREFIX, `${NAMESPACE}.`).replace(/_xl(?:fn|ws|udf)\./gi, '');
-  return lowerExponents(`=${body}`);
+  // (most formulas have no capital exponent either: tested before the rewrite, which reads every quote)
+  return /\d\.?E/.test(body) ? lowerExponents(`=${body}`) : `=${body}`;
 }
 const ADD_IN_PREFIX = new RegExp(`(?:\\[\\d+\\]!)?_xldudf_${NAMESPACE}[._]`, 'gi');
 

@@ -457,11 +457,13 @@ interface CellChild {
   attrEnd: number;
 }
 
+const childCursor = new TagCursor('');
+
 /** The child elements of a cell (read again from the text: only the cells written anew need them). */
 function cellChildren(xml: string, cell: FileCell): CellChild[] {
   const out: CellChild[] = [];
   if (cell.openEnd === cell.end) return out; // <c .../>
-  const t = new TagCursor(xml, cell.openEnd);
+  const t = childCursor.at(xml, cell.openEnd);
   let open: CellChild | undefined;
   let depth = 0;
   while (t.next() && t.start < cell.end) {
@@ -521,6 +523,22 @@ function cellXml(sheet: SheetPart, cell: FileCell | undefined, row: number, col:
   return inner ? `<${name}${attrs}>${inner}</${name}>` : `<${name}${attrs}/>`;
 }
 
+/**
+ * The cells of `cells` at the columns `cols` (ascending), when `cells` are in strictly ascending
+ * column order and hold every one of them; undefined otherwise.
+ */
+function cellsInOrder(cells: FileCell[], cols: number[]): FileCell[] | undefined {
+  for (let i = 1; i < cells.length; i++) if (cells[i].col <= cells[i - 1].col) return undefined;
+  const found: FileCell[] = [];
+  let k = 0;
+  for (const c of cols) {
+    while (k < cells.length && cells[k].col < c) k++;
+    if (k === cells.length || cells[k].col !== c) return undefined;
+    found.push(cells[k]);
+  }
+  return found;
+}
+
 /** The sheet part's text with `edits` applied; everything not edited is copied as it was. */
 export function patchSheet(sheet: SheetPart, edits: Map<number, Map<number, CellEdit>>): string {
   const { xml, prefix: p } = sheet;
@@ -539,6 +557,14 @@ export function patchSheet(sheet: SheetPart, edits: Map<number, Map<number, Cell
     const cols = [...colEdits.keys()].sort((a, b) => a - b);
     const existing = rowsByIndex.get(r);
     if (existing) {
+      // Cells in column order, as files write them: each edited cell found by one walk along the row.
+      const found = cellsInOrder(existing.cells, cols);
+      if (found) {
+        for (let i = 0; i < cols.length; i++) {
+          splices.push({ start: found[i].start, end: found[i].end, text: cellXml(sheet, found[i], r, cols[i], colEdits.get(cols[i])!) });
+        }
+        continue;
+      }
       const byCol = new Map(existing.cells.map((c) => [c.col, c]));
       if (cols.every((c) => byCol.has(c))) {
         for (const c of cols) {

@@ -131,7 +131,14 @@ export class TagCursor {
   closing = false;
   selfClosing = false;
 
-  constructor(readonly xml: string, private pos = 0) {}
+  constructor(public xml: string, private pos = 0) {}
+
+  /** The cursor moved to offset `pos` of `xml` (one cursor used again for many short reads). */
+  at(xml: string, pos: number): this {
+    this.xml = xml;
+    this.pos = pos;
+    return this;
+  }
 
   /** Moves to the next element tag; false at the end of the text. */
   next(): boolean {

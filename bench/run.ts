@@ -347,9 +347,17 @@ async function workbookSection(): Promise<void> {
       const errors = result.report.errors.length;
       report(`mixgap calc, ${label}: wall / CPU time, in this process`, `${seconds.toFixed(2)} / ${cpuSeconds.toFixed(2)} s`,
         n === 25000 ? `target < 2 s${errors ? `; ${errors} error cells` : ''}` : `${errors ? `${errors} error cells` : ''}`);
-      const t1 = performance.now();
-      execFileSync(process.execPath, [cli, 'calc', file, '-q', '-o', path.join(dir, `cmd${rows}.xlsx`)]);
-      report(`mixgap calc, ${label}: the command (a fresh node process, start-up included), wall`, `${((performance.now() - t1) / 1000).toFixed(2)} s`);
+      // The first run after a build leaves V8's code cache beside the bundle (bin/mixgap.js), as a
+      // user's first run does: one untimed run first, then the median of three.
+      const command = () => {
+        const t1 = performance.now();
+        execFileSync(process.execPath, [cli, 'calc', file, '-q', '-o', path.join(dir, `cmd${rows}.xlsx`)]);
+        return (performance.now() - t1) / 1000;
+      };
+      if (rows === 5000) command();
+      const runs = [command(), command(), command()];
+      report(`mixgap calc, ${label}: the command (a fresh node process, start-up included), wall, median of 3`, `${median(runs).toFixed(2)} s`,
+        n === 25000 ? 'target < 2 s' : '');
     }
     report('100,000 / 25,000 formulas: ratio of wall / CPU times in this process',
       `${(wall.get(100000)! / wall.get(25000)!).toFixed(2)} / ${(cpu.get(100000)! / cpu.get(25000)!).toFixed(2)}`, 'target <= 4 (linear)');

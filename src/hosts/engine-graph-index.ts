@@ -39,12 +39,26 @@ function indexOf(graph: GraphLike, fromId: number): Set<number> | undefined {
   return set;
 }
 
-/** Patches HyperFormula's graph class once per process; true when it is (or already was) patched. */
+/**
+ * Patches HyperFormula's graph class once per process, finding it in an empty engine built for the
+ * purpose (which costs as much as setting up the engine's formula parser, a tenth of a second);
+ * true when it is (or already was) patched. The engine of ./engine does not need this: its
+ * function plugin calls `indexGraphOf` with the graph of the engine being built.
+ */
 export function indexDependencyGraph(): boolean {
   if (patched) return true;
   const probe = HyperFormula.buildEmpty({ licenseKey: 'gpl-v3' });
   const graph = (probe as unknown as { dependencyGraph?: { graph?: GraphLike } }).dependencyGraph?.graph;
   probe.destroy();
+  return patchGraphClass(graph);
+}
+
+/** Patches the class of `graph` (a graph of an engine being built) once per process; true when it is patched. */
+export function indexGraphOf(graph: unknown): boolean {
+  return patched || patchGraphClass(graph as GraphLike | undefined);
+}
+
+function patchGraphClass(graph: GraphLike | undefined): boolean {
   const proto = graph && (Object.getPrototypeOf(graph) as Record<string, Method>);
   const names = ['addEdge', 'existsEdge', 'removeEdge', 'removeEdgeIfExists', 'removeNode', 'getNodeIdIfNotNumber'];
   if (!proto || !Array.isArray(graph.edgesSparseArray) || !names.every((n) => typeof proto[n] === 'function')) return false;

@@ -8,13 +8,15 @@
  * ./engine-arguments (engine values -> arguments), ./engine-errors (failures -> error values),
  * ./engine-spill (sizes of spilled results).
  */
-import { CellError, ErrorType, FunctionPlugin, HyperFormula, ArraySize } from 'hyperformula';
+import { CellError, ErrorType, FunctionArgumentType, FunctionPlugin, HyperFormula, ArraySize, SimpleRangeValue } from 'hyperformula';
 import type { ConfigParams, FunctionArgument, FunctionMetadata, ImplementedFunctions, SerializedNamedExpression, Sheets } from 'hyperformula';
 import { argumentType, callArguments } from './engine-arguments';
 import type { AstNode } from './engine-arguments';
 import { NAMESPACE } from '../functions/namespace';
 import { callSafely, toScalar } from './engine-errors';
-import { indexDependencyGraph } from './engine-graph-index';
+import { shareGroupParses } from './engine-formula-groups';
+import type { FormulaGroupOf } from './engine-formula-groups';
+import { indexGraphOf } from './engine-graph-index';
 import { shapeOfCall, toRange } from './engine-spill';
 import type { SpillShape, SpillShapeResult } from './engine-spill';
 
@@ -107,13 +109,25 @@ function entriesOf(metadata: CustomFunctionsMetadata, implementations: Implement
  * A HyperFormula function plugin for `entries` (a new class per engine: its table of functions is
  * static), and the translations of their names.
  */
-function mixgapPlugin(entries: Entry[], spillShape: SpillShape): { plugin: typeof FunctionPlugin; translations: Record<string, string> } {
+function mixgapPlugin(
+  entries: Entry[],
+  spillShape: SpillShape,
+  onEngine?: (interpreter: unknown) => void,
+): { plugin: typeof FunctionPlugin; translations: Record<string, string> } {
   const implemented: ImplementedFunctions = {};
   const shapeOf = (entry: Entry, ast: ProcedureAst): SpillShapeResult =>
     !entry.spills || entry.unsupported ? { rows: 1, cols: 1 } : shapeOfCall(spillShape, entry.meta.id, entry.formulaName, ast.args);
 
   class MixgapPlugin extends FunctionPlugin {
     static override implementedFunctions = implemented;
+
+    constructor(...args: ConstructorParameters<typeof FunctionPlugin>) {
+      super(...args);
+      // The engine makes its plugins before it loads any cell: the graph it will fill is there now.
+      // Loading N formulas that read one card then takes linear, not quadratic, time.
+      indexGraphOf((this as unknown as { dependencyGraph?: { graph?: unknown } }).dependencyGraph?.graph);
+      onEngine?.(args[0]);
+    }
 
     /** Array size of a call, from the literal arguments in the formula text. */
     spillSize(entry: Entry, ast: ProcedureAst): ArraySize {
@@ -130,10 +144,7 @@ function mixgapPlugin(entries: Entry[], spillShape: SpillShape): { plugin: typeo
         if ('error' in shape) return new CellError(ErrorType.VALUE, shape.error);
       }
       const emptyArg = ast.args.map((a) => a.type === 'EMPTY');
-      const run = this.runFunction as unknown as (
-        args: AstNode[], state: InterpreterState, metadata: FunctionMetadata, impl: (...a: unknown[]) => unknown,
-      ) => unknown;
-      return run(ast.args, state, this.metadata(name), (...values: unknown[]) => {
+      const impl = (...values: unknown[]) => {
         const args = callArguments(entry.meta.parameters, values, emptyArg);
         if (args instanceof CellError) return args;
         if (entry.meta.options?.requiresAddress || entry.meta.options?.cancelable) {
@@ -142,7 +153,48 @@ function mixgapPlugin(entries: Entry[], spillShape: SpillShape): { plugin: typeo
         const outcome = callSafely(name, () => entry.implementation!(...args));
         if ('error' in outcome) return outcome.error;
         return shape ? toRange(name, outcome.result, shape as { rows: number; cols: number }) : toScalar(name, outcome.result);
-      });
+      };
+      const metadata = this.metadata(name);
+      const direct = this.direct(ast.args, state, metadata, entry.spills, emptyArg, impl);
+      if (direct !== NEEDS_RUN_FUNCTION) return direct;
+      const run = this.runFunction as unknown as (
+        args: AstNode[], state: InterpreterState, metadata: FunctionMetadata, impl: (...a: unknown[]) => unknown,
+      ) => unknown;
+      return run(ast.args, state, metadata, impl);
+    }
+
+    /**
+     * A call as the engine's runFunction makes it, for the common case, without the lists it builds
+     * per call (a tenth of the time of a big workbook): the arguments evaluated, coerced to their
+     * declared types by the engine's own coerceArgumentsToRequiredTypes, and `impl` called with them.
+     * A call that needs more (a range where a scalar parameter lifts the function over it, too many
+     * or too few arguments) goes to runFunction: NEEDS_RUN_FUNCTION. HyperFormula 3.5.0 internals
+     * used: FunctionPlugin's evaluateAst and coerceArgumentsToRequiredTypes(state, values,
+     * parameters, ignorable flags, empty flags), as runFunction calls them.
+     */
+    direct(args: AstNode[], state: InterpreterState, metadata: FunctionMetadata, spills: boolean, emptyArg: boolean[],
+      impl: (...a: unknown[]) => unknown): unknown {
+      const params = metadata.parameters;
+      const self = this as unknown as {
+        evaluateAst?: (ast: AstNode, state: InterpreterState) => unknown;
+        coerceArgumentsToRequiredTypes?: (state: InterpreterState, values: unknown[], params: FunctionArgument[], ignorable: boolean[], empty: boolean[]) => unknown;
+      };
+      if (!params || metadata.repeatLastArgs !== undefined || metadata.expandRanges || args.length > params.length) return NEEDS_RUN_FUNCTION;
+      if (typeof self.evaluateAst !== 'function' || typeof self.coerceArgumentsToRequiredTypes !== 'function') return NEEDS_RUN_FUNCTION;
+      for (let i = args.length; i < params.length; i++) if (!params[i].optionalArg && params[i].defaultValue === undefined) return NEEDS_RUN_FUNCTION;
+      const values: unknown[] = [];
+      const ignorable: boolean[] = [];
+      for (let i = 0; i < args.length; i++) {
+        const v = self.evaluateAst(args[i], state);
+        // Lifted over the range, cell by cell (vectorization), unless the function spills itself.
+        if (!spills && v instanceof SimpleRangeValue && params[i].argumentType !== FunctionArgumentType.RANGE
+          && params[i].argumentType !== FunctionArgumentType.ANY) return NEEDS_RUN_FUNCTION;
+        values.push(v);
+        ignorable.push(false);
+      }
+      const coerced = self.coerceArgumentsToRequiredTypes(state, values, params, ignorable, emptyArg);
+      if (coerced instanceof CellError) return coerced;
+      return impl(...(coerced as unknown[]));
     }
   }
 
@@ -175,12 +227,17 @@ function mixgapPlugin(entries: Entry[], spillShape: SpillShape): { plugin: typeo
   return { plugin: MixgapPlugin, translations };
 }
 
+/** What MixgapPlugin.direct answers for a call it leaves to the engine's runFunction. */
+const NEEDS_RUN_FUNCTION = Symbol('needs runFunction');
+
 /** What an engine starts with, loaded in one go (no undo history, one evaluation). */
 export interface EngineContent {
   /** Sheets by name, each as rows of cells (values, or formula texts starting with "="). */
   sheets: Sheets;
   /** Named expressions (a `scope` is the index of a sheet in `sheets`). */
   names?: SerializedNamedExpression[];
+  /** Cells that hold one formula moved from cell to cell (./engine-formula-groups): read once per group. */
+  formulaGroups?: FormulaGroupOf;
 }
 
 /**
@@ -197,10 +254,13 @@ export function buildEngine(
   config: Partial<ConfigParams> = {},
   content?: EngineContent,
 ): HyperFormula {
-  const { plugin, translations } = mixgapPlugin(entriesOf(metadata, implementations), spillShape);
+  // A workbook's shared formulas are read once per block while the engine is built (./engine-formula-groups).
+  let stopSharing: (() => void) | undefined;
+  const groupOf = content?.formulaGroups;
+  const onEngine = groupOf && ((interpreter: unknown) => { stopSharing ??= shareGroupParses(interpreter, groupOf); });
+  const { plugin, translations } = mixgapPlugin(entriesOf(metadata, implementations), spillShape, onEngine);
   // Function names live in the (global) language package; the plugin itself is per engine.
   HyperFormula.getLanguage(config.language ?? 'enGB').extendFunctions(translations);
-  indexDependencyGraph(); // loading N formulas that read one card: linear, not quadratic, time
   const fullConfig = {
     ...ENGINE_DEFAULTS,
     ...config,
@@ -208,5 +268,9 @@ export function buildEngine(
   };
   // HyperFormula knows only TRUE() and FALSE(); these names let formulas write TRUE and FALSE as in Excel.
   const booleans: SerializedNamedExpression[] = [{ name: 'TRUE', expression: '=TRUE()' }, { name: 'FALSE', expression: '=FALSE()' }];
-  return HyperFormula.buildFromSheets(content?.sheets ?? {}, fullConfig, [...booleans, ...(content?.names ?? [])]);
+  try {
+    return HyperFormula.buildFromSheets(content?.sheets ?? {}, fullConfig, [...booleans, ...(content?.names ?? [])]);
+  } finally {
+    stopSharing?.();
+  }
 }

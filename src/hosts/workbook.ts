@@ -112,7 +112,8 @@ export function engineFormula(text: string): string {
   let body = text.replace(/^\s*=/, '');
   // (tested first: most formulas have no prefix, and a workbook can hold a hundred thousand)
   if (/_xl/i.test(body)) body = body.replace(ADD_IN_PREFIX, `${NAMESPACE}.`).replace(/_xl(?:fn|ws|udf)\./gi, '');
-  return lowerExponents(`=${body}`);
+  // (most formulas have no capital exponent either: tested before the rewrite, which reads every quote)
+  return /\d\.?E/.test(body) ? lowerExponents(`=${body}`) : `=${body}`;
 }
 const ADD_IN_PREFIX = new RegExp(`(?:\\[\\d+\\]!)?_xldudf_${NAMESPACE}[._]`, 'gi');
 
@@ -242,7 +243,11 @@ export async function evaluateWorkbook(
   const key = (row: number, col: number) => row * 16384 + col;
 
   const content: Sheets = {};
+  /** Per sheet: the cells of shared formulas (row * 16384 + col) and the block each belongs to. */
+  const groups = new Map<string, Map<number, number>>();
   book.sheets.forEach((sheet) => {
+    const sheetGroups = new Map<number, number>();
+    groups.set(sheet.name, sheetGroups);
     const covered = new Set<number>();
     for (const row of sheet.rows) {
       for (const cell of row.cells) {
@@ -265,6 +270,7 @@ export async function evaluateWorkbook(
         if (f && f.text && f.kind !== 'dataTable') {
           formulas.push({ sheet: sheet.name, sheetId: -1, row: cell.row, col: cell.col, text: f.text });
           value = engineFormula(f.text);
+          if (f.group !== undefined) sheetGroups.set(key(cell.row, cell.col), f.group);
         } else {
           value = rawContent(cell, book.sharedStrings, book.date1904);
           if (value === null) continue;
@@ -293,14 +299,25 @@ export async function evaluateWorkbook(
     names.push({ name, expression: engineFormula(text), ...(scope !== undefined ? { scope } : {}) });
   }
 
+  // The engine reads the cells of a shared formula once per block. It numbers sheets in the order
+  // of `order`; a text that is not the one given for the cell (should that order ever differ) is
+  // read as usual.
+  const bySheetId = order.map((name) => ({ grid: content[name], groups: groups.get(name)! }));
+  const formulaGroups = (address: SimpleCellAddress, text: string): number | undefined => {
+    const sheet = bySheetId[address.sheet];
+    const group = sheet?.groups.get(key(address.row, address.col));
+    if (group === undefined || sheet.grid[address.row]?.[address.col] !== text) return undefined;
+    return address.sheet * 2 ** 32 + group;
+  };
+
   await onProgress?.(0, formulas.length);
   let engine: HyperFormula;
   try {
-    engine = build({ sheets: content, names });
+    engine = build({ sheets: content, names, formulaGroups });
   } catch {
     // A name the engine does not accept (it refuses the whole list): load without names, then
     // add the ones it takes, one by one.
-    engine = build({ sheets: content });
+    engine = build({ sheets: content, formulaGroups });
     engine.batch(() => {
       for (const n of names) {
         if (engine.isItPossibleToAddNamedExpression(n.name, n.expression, n.scope)) engine.addNamedExpression(n.name, n.expression, n.scope);

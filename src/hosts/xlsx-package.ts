@@ -9,7 +9,7 @@ import path from 'path';
 import { crc32, deflateRawSync, inflateRawSync } from 'zlib';
 import JSZip from 'jszip';
 import { a1, parseA1, parseRange, slider } from './a1';
-import { attribute, encodeXstring, runText, tags, unescapeXml } from './xml';
+import { attribute, attributeIn, encodeXstring, runText, TagCursor, tags, unescapeXml } from './xml';
 import type { Tag } from './xml';
 
 /** The input is not a workbook package (not a zip, or a zip without a readable workbook part). */
@@ -23,6 +23,11 @@ export interface FileFormula {
   kind: string;
   /** The range of an array formula. */
   ref?: string;
+  /**
+   * For the cells of a shared formula: a number that cells holding the same formula, moved, share
+   * (one per block of the sheet). Left out where moving made a reference #REF!.
+   */
+  group?: number;
 }
 
 /** One cell element of a worksheet, with where it sits in the part's text. */
@@ -42,8 +47,8 @@ export interface FileCell {
   /** Text of an inline string (`is`). */
   inline?: string;
   formula?: FileFormula;
-  /** Child elements: local name and offsets, in order. */
-  children: Array<{ local: string; start: number; end: number; attrText: string; tag: string }>;
+  /** End of the start tag (the whole element when self-closing); child elements lie between it and the end tag. */
+  openEnd: number;
 }
 
 interface FileRow {
@@ -177,78 +182,119 @@ function parseSharedStrings(xml: string): string[] {
   return out;
 }
 
-/** The cells of a worksheet part. Shared formulas are moved to each cell of their block. */
+/** 0-based row and column of a cell reference as files write it (`B12`), or of any other form parseA1 reads. */
+function cellRef(r: string): { row: number; col: number } {
+  let col = 0, i = 0;
+  for (; i < r.length; i++) {
+    const c = r.charCodeAt(i);
+    if (c < 65 || c > 90) break;
+    col = col * 26 + (c - 64);
+  }
+  let row = 0;
+  const digits = i;
+  for (; i < r.length; i++) {
+    const c = r.charCodeAt(i);
+    if (c < 48 || c > 57) break;
+    row = row * 10 + (c - 48);
+  }
+  if (i < r.length || digits === 0 || digits > 3 || i === digits || i - digits > 7) return parseA1(r);
+  return { row: row - 1, col: col - 1 };
+}
+
+/**
+ * The cells of a worksheet part. Shared formulas are moved to each cell of their block. Read with a
+ * TagCursor (offsets, no object per tag): a worksheet can hold a hundred thousand cells.
+ */
 export function parseSheet(name: string, partPath: string, xml: string): SheetPart {
   let sheetData: SheetPart['sheetData'] | undefined;
   let dimension: SheetPart['dimension'];
   const rows: FileRow[] = [];
   let prefix = '';
-  for (const t of tags(xml)) {
-    if (t.local === 'dimension' && !t.closing) dimension = { start: t.start, end: t.end, attrText: t.attrText };
-    if (t.local === 'sheetData' && !t.closing) {
+  const t = new TagCursor(xml);
+  while (t.next()) {
+    if (t.closing) continue;
+    if (t.is('dimension')) dimension = { start: t.start, end: t.end, attrText: t.attrText };
+    else if (t.is('sheetData')) {
       sheetData = { start: t.start, openEnd: t.end, end: t.end, selfClosing: t.selfClosing };
-      prefix = t.name.slice(0, t.name.length - t.local.length);
+      prefix = xml.slice(t.nameStart, t.localStart);
       break;
     }
   }
   if (!sheetData) throw new Error(`the sheet part ${partPath} has no cell data`);
-  const shared = new Map<string, { slide: (rows: number, cols: number) => string; row: number; col: number }>();
+  const shared = new Map<string, { slide: (rows: number, cols: number) => string; row: number; col: number; group: number }>();
+  let groups = 0;
 
   if (!sheetData.selfClosing) {
     let row: FileRow | undefined;
     let cell: FileCell | undefined;
-    let child: { tag: Tag; depth: number } | undefined;
+    // The child element of the cell being read: its local name, where its start tag's attributes
+    // lie and ends, and how deep elements of the same name nest in it (0: none open).
+    let childLocal = '', childAttrStart = 0, childAttrEnd = 0, childOpenEnd = 0, depth = 0;
     let nextRow = 0, nextCol = 0;
-    const finishCell = (c: FileCell) => {
-      for (const ch of c.children) {
-        const inner = () => xml.slice(xml.indexOf('>', ch.start) + 1, xml.lastIndexOf('<', ch.end - 1));
-        const self = xml[ch.end - 2] === '/';
-        if (ch.local === 'v') c.value = self ? '' : unescapeXml(inner());
-        else if (ch.local === 'is') c.inline = self ? '' : runText(inner());
-        else if (ch.local === 'f') {
-          const kind = attribute(ch.attrText, 't') ?? 'normal';
-          const ref = attribute(ch.attrText, 'ref');
-          const si = attribute(ch.attrText, 'si');
-          let text = self ? '' : unescapeXml(inner());
-          if (kind === 'shared' && si !== undefined) {
-            if (text) shared.set(si, { slide: slider(text), row: c.row, col: c.col });
-            else {
-              const master = shared.get(si);
-              if (master) text = master.slide(c.row - master.row, c.col - master.col);
+    const child = (c: FileCell, local: string, attrStart: number, attrEnd: number, inner: string) => {
+      if (local === 'v') c.value = unescapeXml(inner);
+      else if (local === 'is') c.inline = runText(inner);
+      else if (local === 'f') {
+        const kind = attributeIn(xml, attrStart, attrEnd, 't') ?? 'normal';
+        const ref = attributeIn(xml, attrStart, attrEnd, 'ref');
+        const si = kind === 'shared' ? attributeIn(xml, attrStart, attrEnd, 'si') : undefined;
+        let text = unescapeXml(inner);
+        let group: number | undefined;
+        if (si !== undefined) {
+          if (text) shared.set(si, { slide: slider(text), row: c.row, col: c.col, group: (group = ++groups) });
+          else {
+            const master = shared.get(si);
+            if (master) {
+              text = master.slide(c.row - master.row, c.col - master.col);
+              group = master.group;
             }
           }
-          c.formula = { text, kind, ...(ref ? { ref } : {}) };
+          if (group !== undefined && text.includes('#REF!')) group = undefined;
         }
+        c.formula = ref ? { text, kind, ref } : { text, kind };
+        if (group !== undefined) c.formula.group = group;
       }
-      row!.cells.push(c);
     };
-    for (const t of tags(xml, sheetData.openEnd)) {
+    const local = () => (t.is('v') ? 'v' : t.is('f') ? 'f' : t.is('is') ? 'is' : t.local);
+    while (t.next()) {
       if (cell) {
-        if (child) {
-          if (t.local === child.tag.local && !t.selfClosing) child.depth += t.closing ? -1 : 1;
-          if (child.depth === 0) {
-            cell.children.push({ local: child.tag.local, start: child.tag.start, end: t.end, attrText: child.tag.attrText, tag: child.tag.name });
-            child = undefined;
-          }
+        if (depth > 0) {
+          if (!t.selfClosing && t.nameEnd - t.localStart === childLocal.length && xml.startsWith(childLocal, t.localStart)) depth += t.closing ? -1 : 1;
+          if (depth === 0) child(cell, childLocal, childAttrStart, childAttrEnd, xml.slice(childOpenEnd, t.start));
           continue;
         }
-        if (t.closing && t.local === 'c') {
+        if (t.closing && t.is('c')) {
           cell.end = t.end;
-          finishCell(cell);
+          row!.cells.push(cell);
           cell = undefined;
         } else if (!t.closing) {
-          if (t.selfClosing) cell.children.push({ local: t.local, start: t.start, end: t.end, attrText: t.attrText, tag: t.name });
-          else child = { tag: t, depth: 1 };
+          if (t.selfClosing) child(cell, local(), t.nameEnd, t.attrEnd, '');
+          else {
+            childLocal = local();
+            childAttrStart = t.nameEnd;
+            childAttrEnd = t.attrEnd;
+            childOpenEnd = t.end;
+            depth = 1;
+          }
         }
         continue;
       }
-      if (t.local === 'sheetData' && t.closing) {
-        sheetData.end = t.end;
-        break;
+      if (t.is('c')) {
+        if (t.closing || !row) continue;
+        const r = t.attr('r');
+        const at = r !== undefined ? cellRef(r) : { row: row.row, col: nextCol };
+        nextCol = at.col + 1;
+        const c: FileCell = {
+          row: row.row, col: at.col, start: t.start, end: t.end, tag: t.name, hasRef: r !== undefined,
+          type: t.attr('t'), openEnd: t.end,
+        };
+        if (t.selfClosing) row.cells.push(c);
+        else cell = c;
+        continue;
       }
-      if (t.local === 'row') {
+      if (t.is('row')) {
         if (t.closing) { if (row) row.end = t.end; row = undefined; continue; }
-        const r = attribute(t.attrText, 'r');
+        const r = t.attr('r');
         const index = r !== undefined ? Number(r) - 1 : nextRow;
         nextRow = index + 1;
         nextCol = 0;
@@ -257,16 +303,9 @@ export function parseSheet(name: string, partPath: string, xml: string): SheetPa
         if (t.selfClosing) row = undefined;
         continue;
       }
-      if (t.local === 'c' && !t.closing && row) {
-        const r = attribute(t.attrText, 'r');
-        const at = r !== undefined ? parseA1(r) : { row: row.row, col: nextCol };
-        nextCol = at.col + 1;
-        const c: FileCell = {
-          row: row.row, col: at.col, start: t.start, end: t.end, tag: t.name, hasRef: r !== undefined,
-          type: attribute(t.attrText, 't'), children: [],
-        };
-        if (t.selfClosing) finishCell(c);
-        else cell = c;
+      if (t.closing && t.is('sheetData')) {
+        sheetData.end = t.end;
+        break;
       }
     }
   }
@@ -407,6 +446,44 @@ function tagAttrText(xml: string, start: number, end: number): { name: string; a
   return { name, attrText: head.slice(1 + name.length, head.length - close) };
 }
 
+/** A child element of a cell: its local name, offsets, and where its start tag's attributes lie. */
+interface CellChild {
+  local: string;
+  start: number;
+  end: number;
+  /** End of the start tag. */
+  openEnd: number;
+  attrStart: number;
+  attrEnd: number;
+}
+
+const childCursor = new TagCursor('');
+
+/** The child elements of a cell (read again from the text: only the cells written anew need them). */
+function cellChildren(xml: string, cell: FileCell): CellChild[] {
+  const out: CellChild[] = [];
+  if (cell.openEnd === cell.end) return out; // <c .../>
+  const t = childCursor.at(xml, cell.openEnd);
+  let open: CellChild | undefined;
+  let depth = 0;
+  while (t.next() && t.start < cell.end) {
+    if (open) {
+      if (!t.selfClosing && t.is(open.local)) depth += t.closing ? -1 : 1;
+      if (depth === 0) {
+        open.end = t.end;
+        out.push(open);
+        open = undefined;
+      }
+      continue;
+    }
+    if (t.closing) continue;
+    const ch = { local: t.local, start: t.start, end: t.end, openEnd: t.end, attrStart: t.nameEnd, attrEnd: t.attrEnd };
+    if (t.selfClosing) out.push(ch);
+    else { open = ch; depth = 1; }
+  }
+  return out;
+}
+
 /** A cell element with its new value: a changed cell keeps its other attributes, formula and extensions. */
 function cellXml(sheet: SheetPart, cell: FileCell | undefined, row: number, col: number, edit: CellEdit): string {
   const p = sheet.prefix;
@@ -415,25 +492,27 @@ function cellXml(sheet: SheetPart, cell: FileCell | undefined, row: number, col:
     return `<${p}c r="${a1(row, col)}"${t ? ` t="${t}"` : ''}${xml ? `>${xml}</${p}c>` : '/>'}`;
   }
   const xmlText = sheet.xml;
-  const { name, attrText } = tagAttrText(xmlText, cell.start, xmlText.indexOf('>', cell.start) + 1);
-  const formula = cell.children.find((ch) => ch.local === 'f');
-  const cp = /^([\w.-]+:)?/.exec(cell.tag)![0];
-  const { t, xml } = valueXml(edit.value, !!formula, cp);
+  const name = cell.tag;
+  const selfClosing = cell.openEnd === cell.end && xmlText.charCodeAt(cell.end - 2) === 47; // '/>'
+  const attrText = xmlText.slice(cell.start + 1 + name.length, cell.openEnd - (selfClosing ? 2 : 1));
+  const children = cellChildren(xmlText, cell);
+  const formula = children.some((ch) => ch.local === 'f');
+  const cp = name.slice(0, name.length - 1); // the prefix of `c`: '' or 'x:'
+  const { t, xml } = valueXml(edit.value, formula, cp);
   let attrs = setAttr(attrText, 't', t);
   if (!cell.hasRef) attrs = ` r="${a1(row, col)}"${attrs}`;
   let inner = '';
   let placed = false;
-  for (const ch of cell.children) {
+  for (const ch of children) {
     if (ch.local === 'v' || ch.local === 'is') continue;
     let raw = xmlText.slice(ch.start, ch.end);
     if (ch.local === 'f' && edit.arrayRef !== undefined) {
-      const kind = attribute(ch.attrText, 't');
+      const kind = attributeIn(xmlText, ch.attrStart, ch.attrEnd, 't');
       if (kind === undefined || kind === 'normal' || kind === 'array') {
-        const openEnd = xmlText.indexOf('>', ch.start) + 1;
-        const head = tagAttrText(xmlText, ch.start, openEnd);
-        const selfClosing = xmlText[openEnd - 2] === '/';
-        const fAttrs = setAttr(setAttr(head.attrText, 't', 'array'), 'ref', edit.arrayRef);
-        raw = `<${head.name}${fAttrs}${selfClosing ? '/>' : '>'}${xmlText.slice(openEnd, ch.end)}`;
+        const fSelfClosing = ch.openEnd === ch.end && xmlText.charCodeAt(ch.end - 2) === 47;
+        const fName = xmlText.slice(ch.start + 1, ch.attrStart);
+        const fAttrs = setAttr(setAttr(xmlText.slice(ch.attrStart, ch.attrEnd), 't', 'array'), 'ref', edit.arrayRef);
+        raw = `<${fName}${fAttrs}${fSelfClosing ? '/>' : '>'}${xmlText.slice(ch.openEnd, ch.end)}`;
       }
     }
     if (ch.local !== 'f' && !placed) { inner += xml; placed = true; }
@@ -442,6 +521,22 @@ function cellXml(sheet: SheetPart, cell: FileCell | undefined, row: number, col:
   }
   if (!placed) inner += xml;
   return inner ? `<${name}${attrs}>${inner}</${name}>` : `<${name}${attrs}/>`;
+}
+
+/**
+ * The cells of `cells` at the columns `cols` (ascending), when `cells` are in strictly ascending
+ * column order and hold every one of them; undefined otherwise.
+ */
+function cellsInOrder(cells: FileCell[], cols: number[]): FileCell[] | undefined {
+  for (let i = 1; i < cells.length; i++) if (cells[i].col <= cells[i - 1].col) return undefined;
+  const found: FileCell[] = [];
+  let k = 0;
+  for (const c of cols) {
+    while (k < cells.length && cells[k].col < c) k++;
+    if (k === cells.length || cells[k].col !== c) return undefined;
+    found.push(cells[k]);
+  }
+  return found;
 }
 
 /** The sheet part's text with `edits` applied; everything not edited is copied as it was. */
@@ -462,6 +557,14 @@ export function patchSheet(sheet: SheetPart, edits: Map<number, Map<number, Cell
     const cols = [...colEdits.keys()].sort((a, b) => a - b);
     const existing = rowsByIndex.get(r);
     if (existing) {
+      // Cells in column order, as files write them: each edited cell found by one walk along the row.
+      const found = cellsInOrder(existing.cells, cols);
+      if (found) {
+        for (let i = 0; i < cols.length; i++) {
+          splices.push({ start: found[i].start, end: found[i].end, text: cellXml(sheet, found[i], r, cols[i], colEdits.get(cols[i])!) });
+        }
+        continue;
+      }
       const byCol = new Map(existing.cells.map((c) => [c.col, c]));
       if (cols.every((c) => byCol.has(c))) {
         for (const c of cols) {

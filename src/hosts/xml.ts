@@ -111,3 +111,177 @@ export function runText(xml: string): string {
   }
   return out;
 }
+
+/**
+ * The element tags of a text one at a time, as `tags` finds them (comments, CDATA and declarations
+ * skipped), without an object or a string per tag: `next()` moves to the next tag and the fields
+ * describe it by offsets. For the big parts (a worksheet of a hundred thousand cells), where
+ * `tags` spends more time making objects than reading.
+ */
+export class TagCursor {
+  /** Offsets of the whole tag, `<` to `>` inclusive / exclusive. */
+  start = 0;
+  end = 0;
+  /** The qualified name is xml[nameStart, nameEnd); the local name starts at localStart. */
+  nameStart = 0;
+  nameEnd = 0;
+  localStart = 0;
+  /** The raw attribute text is xml[nameEnd, attrEnd). */
+  attrEnd = 0;
+  closing = false;
+  selfClosing = false;
+
+  constructor(public xml: string, private pos = 0) {}
+
+  /** The cursor moved to offset `pos` of `xml` (one cursor used again for many short reads). */
+  at(xml: string, pos: number): this {
+    this.xml = xml;
+    this.pos = pos;
+    return this;
+  }
+
+  /** Moves to the next element tag; false at the end of the text. */
+  next(): boolean {
+    const x = this.xml;
+    let i = this.pos;
+    for (;;) {
+      const lt = x.indexOf('<', i);
+      if (lt < 0) {
+        this.pos = x.length;
+        return false;
+      }
+      const c1 = x.charCodeAt(lt + 1);
+      if (c1 === 33 /* ! */ || c1 === 63 /* ? */) {
+        // A comment or CDATA section to its end; another declaration or instruction to the next `>`.
+        let e = -1;
+        if (x.startsWith('!--', lt + 1) && (e = x.indexOf('-->', lt + 4)) >= 0) i = e + 3;
+        else if (x.startsWith('![CDATA[', lt + 1) && (e = x.indexOf(']]>', lt + 9)) >= 0) i = e + 3;
+        else if ((e = x.indexOf('>', lt + 2)) >= 0) i = e + 1;
+        else i = lt + 1;
+        continue;
+      }
+      if (this.element(lt)) return true;
+      i = lt + 1; // not a tag (a stray `<`, an unclosed quote): look further, as `tags` does
+    }
+  }
+
+  /** Reads the element tag at `lt`; false when there is none. */
+  private element(lt: number): boolean {
+    const x = this.xml;
+    let j = lt + 1;
+    const closing = x.charCodeAt(j) === 47; // '/'
+    if (closing) j++;
+    if (!isNameStart(x.charCodeAt(j))) return false;
+    const nameStart = j;
+    let localStart = j;
+    for (j++; ; j++) {
+      const c = x.charCodeAt(j);
+      if (c === 58 /* : */) localStart = j + 1;
+      else if (!isNameChar(c)) break;
+    }
+    const nameEnd = j;
+    for (;;) {
+      const c = x.charCodeAt(j);
+      if (c === 62 /* > */) {
+        this.set(lt, j + 1, nameStart, nameEnd, localStart, j, closing, false);
+        return true;
+      }
+      if (c === 34 /* " */ || c === 39 /* ' */) {
+        const q = x.indexOf(c === 34 ? '"' : "'", j + 1);
+        if (q < 0) return false;
+        j = q + 1;
+      } else if (c === 47 /* / */ && x.charCodeAt(j + 1) === 62) {
+        this.set(lt, j + 2, nameStart, nameEnd, localStart, j, closing, true);
+        return true;
+      } else if (Number.isNaN(c)) {
+        return false;
+      } else {
+        j++;
+      }
+    }
+  }
+
+  private set(start: number, end: number, nameStart: number, nameEnd: number, localStart: number, attrEnd: number, closing: boolean, selfClosing: boolean): void {
+    this.start = start;
+    this.end = end;
+    this.nameStart = nameStart;
+    this.nameEnd = nameEnd;
+    this.localStart = localStart;
+    this.attrEnd = attrEnd;
+    this.closing = closing;
+    this.selfClosing = selfClosing;
+    this.pos = end;
+  }
+
+  /** Whether the tag's local name is `local`. */
+  is(local: string): boolean {
+    return this.nameEnd - this.localStart === local.length && this.xml.startsWith(local, this.localStart);
+  }
+
+  get name(): string {
+    return this.xml.slice(this.nameStart, this.nameEnd);
+  }
+
+  get local(): string {
+    return this.xml.slice(this.localStart, this.nameEnd);
+  }
+
+  get attrText(): string {
+    return this.xml.slice(this.nameEnd, this.attrEnd);
+  }
+
+  /** One attribute of the tag by its local name (any prefix), unescaped, or undefined. */
+  attr(local: string): string | undefined {
+    return attributeIn(this.xml, this.nameEnd, this.attrEnd, local);
+  }
+}
+
+/** [A-Za-z_] */
+function isNameStart(c: number): boolean {
+  return (c >= 97 && c <= 122) || (c >= 65 && c <= 90) || c === 95;
+}
+
+/** [\w.:-] */
+function isNameChar(c: number): boolean {
+  return (c >= 97 && c <= 122) || (c >= 65 && c <= 90) || (c >= 48 && c <= 58) || c === 95 || c === 46 || c === 45;
+}
+
+/** 9, 10, 13, 32: the white space of XML. */
+function isSpace(c: number): boolean {
+  return c === 32 || c === 10 || c === 9 || c === 13;
+}
+
+/**
+ * One attribute by its local name (any prefix) from the attribute text xml[from, to), unescaped, or
+ * undefined: `attribute` without the slices (names are read one after the other, so text inside
+ * another attribute's value is never taken for an attribute).
+ */
+export function attributeIn(xml: string, from: number, to: number, local: string): string | undefined {
+  let i = from;
+  while (i < to) {
+    const c = xml.charCodeAt(i);
+    if (isSpace(c) || c === 47 /* / */) { i++; continue; }
+    const nameStart = i;
+    while (i < to) {
+      const d = xml.charCodeAt(i);
+      if (d === 61 /* = */ || isSpace(d) || d === 47) break;
+      i++;
+    }
+    const nameEnd = i;
+    while (i < to && isSpace(xml.charCodeAt(i))) i++;
+    if (xml.charCodeAt(i) !== 61) continue; // a name without a value: not well-formed, skipped
+    i++;
+    while (i < to && isSpace(xml.charCodeAt(i))) i++;
+    const q = xml.charCodeAt(i);
+    if (q !== 34 && q !== 39) continue;
+    const valueEnd = xml.indexOf(q === 34 ? '"' : "'", i + 1);
+    if (valueEnd < 0 || valueEnd >= to) return undefined;
+    const n = nameEnd - nameStart;
+    if (n >= local.length && xml.startsWith(local, nameEnd - local.length)
+      && (n === local.length || xml.charCodeAt(nameEnd - local.length - 1) === 58 /* : */)) {
+      return unescapeXml(xml.slice(i + 1, valueEnd));
+    }
+    i = valueEnd + 1;
+  }
+  return undefined;
+}

@@ -16,6 +16,14 @@ describe('engineFormula', () => {
     expect(engineFormula('[2]!_xldudf_mixgap.TCRIT(B1:C4)*2')).toBe('=MIXGAP.TCRIT(B1:C4)*2');
   });
 
+  test('writes capital exponents as the engine reads them, outside quotes only', () => {
+    // Files store numbers as spreadsheet programs print them (1E+21, 2.E-3: ECMA-376 Part 1 (2016)
+    // §18.17.2 formula grammar, from memory); the engine's parser reads only a small e.
+    expect(engineFormula('A1*1E+21+2.E-3')).toBe('=A1*1e+21+2.e-3');
+    expect(engineFormula('LEN("1E5")+1E5')).toBe('=LEN("1E5")+1e5');
+    expect(engineFormula('E5+1')).toBe('=E5+1');
+  });
+
   test('leaves the rest alone, text in quotes included', () => {
     expect(engineFormula('MIXGAP.PHASEFRAC(0.2, 600, Card!A1:B5, "high")')).toBe('=MIXGAP.PHASEFRAC(0.2, 600, Card!A1:B5, "high")');
   });

@@ -6,6 +6,8 @@
  * from memory).
  */
 import { DOMParser } from '@xmldom/xmldom';
+import type { Element as XmlElement, Node as XmlNode } from '@xmldom/xmldom';
+import fc from 'fast-check';
 import { describe, expect, test } from 'vitest';
 import { parseSheet, patchSheet } from '../../src/hosts/xlsx-package';
 import type { CellEdit } from '../../src/hosts/xlsx-package';
@@ -85,5 +87,99 @@ describe('numbers in the file', () => {
     const back = read(out).map(([, , v]) => Number(v));
     expect(back).toEqual(values);
     expect(out).toContain('<v>1E+21</v>');
+  });
+});
+
+describe('parseSheet against a namespace-aware XML parser', () => {
+  // Random worksheet layouts (seed 20261203): prefixed or not, rows and cells with and without `r`,
+  // self-closing cells and children, formulas, inline rich text with phonetic runs, escapes, comments
+  // and CDATA holding tags, and attribute values holding `>` and `/>`. Every cell xmldom finds must
+  // be read with the same address, type, value, inline text and formula text.
+  // A cell's children in the schema's order: at most one formula, one value or inline string, and extensions.
+  const formulas = ['<f>A1*2</f>', '<f/>', '<f t="array" ref="A1:A3">SEQUENCE(3)</f>', '<f>"a&quot;b&gt;"&amp;C1</f>'];
+  const values = ['<v>1</v>', '<v/>', '<v>&lt;&amp;&#65;&#x42;</v>', '<is><t>x</t></is>',
+    '<is><r><t>a</t></r><rPh sb="0"><t>p</t></rPh><r><t xml:space="preserve"> b</t></r></is>'];
+  const extension = '<extLst><ext uri="{a>b/>}"><q:x xmlns:q="urn:q" a="&lt;>"/></ext></extLst>';
+  const between = ['', '<!-- <c r="Z9"><v>9</v></c> -->', ' ', '\n  '];
+  const cellAttrs = ['', ' s="1"', ' t="s"', ' t="str"', " t='b'", ' t="e"', ' t="inlineStr"', ' cm="1" vm=">"'];
+  const layout = fc.record({
+    prefixed: fc.boolean(),
+    rows: fc.array(fc.record({
+      gap: fc.integer({ min: 1, max: 3 }),
+      withRef: fc.boolean(),
+      cells: fc.array(fc.record({
+        gap: fc.integer({ min: 1, max: 2 }),
+        withRef: fc.boolean(),
+        attrs: fc.constantFrom(...cellAttrs),
+        selfClosing: fc.boolean(),
+        formula: fc.option(fc.constantFrom(...formulas)),
+        value: fc.option(fc.constantFrom(...values)),
+        extended: fc.boolean(),
+        before: fc.constantFrom(...between),
+      }), { maxLength: 5 }),
+    }), { maxLength: 6 }),
+  });
+  type Layout = typeof layout extends fc.Arbitrary<infer T> ? T : never;
+  const sheetXml = (l: Layout): string => {
+    const p = l.prefixed ? 'x:' : '';
+    const pre = (s: string) => (p ? s.replace(/<(\/?)(?=[a-zA-Z])(?!q:)/g, `<$1${p}`) : s);
+    let body = '';
+    let r = 0;
+    for (const row of l.rows) {
+      r += row.gap;
+      let c = 0;
+      let cells = '';
+      for (const cell of row.cells) {
+        c += cell.gap;
+        const ref = cell.withRef && row.withRef ? ` r="${String.fromCharCode(64 + c)}${r}"` : '';
+        cells += pre(cell.before) + (cell.selfClosing
+          ? `<${p}c${ref}${cell.attrs}/>`
+          : `<${p}c${ref}${cell.attrs}>${pre((cell.formula ?? '') + (cell.value ?? '') + (cell.extended ? extension : ''))}</${p}c>`);
+      }
+      body += `<${p}row${row.withRef ? ` r="${r}"` : ''}>${cells}</${p}row>`;
+    }
+    const ns = p ? `xmlns:x="${NS}"` : `xmlns="${NS}"`;
+    return `<?xml version="1.0"?><${p}worksheet ${ns}><!-- <sheetData/> --><${p}sheetData>${body}</${p}sheetData><![CDATA[<c r="A1"/>]]></${p}worksheet>`;
+  };
+  const isElement = (n: XmlNode | null, local: string): n is XmlElement => n?.nodeType === 1 && (n as XmlElement).localName === local;
+  /** What xmldom reads of every cell: [row, col, t, v, inline text, formula text] (positions by the layout rules). */
+  const expected = (xml: string) => {
+    const doc = new DOMParser().parseFromString(xml, 'text/xml');
+    const out: unknown[] = [];
+    const rows = doc.getElementsByTagNameNS(NS, 'row');
+    let nextRow = 0;
+    for (let i = 0; i < rows.length; i++) {
+      const row = rows[i];
+      const index = row.getAttribute('r') ? Number(row.getAttribute('r')) - 1 : nextRow;
+      nextRow = index + 1;
+      let nextCol = 0;
+      for (let c: XmlNode | null = row.firstChild; c; c = c.nextSibling) {
+        if (!isElement(c, 'c')) continue;
+        const cell = c;
+        const ref = cell.getAttribute('r');
+        const col = ref ? ref.charCodeAt(0) - 65 : nextCol;
+        nextCol = col + 1;
+        const child = (name: string) => {
+          for (let k: XmlNode | null = cell.firstChild; k; k = k.nextSibling) if (isElement(k, name) && k.namespaceURI === NS) return k;
+          return undefined;
+        };
+        const is = child('is');
+        let inline: string | undefined;
+        if (is) {
+          inline = '';
+          const ts = is.getElementsByTagNameNS(NS, 't');
+          for (let k = 0; k < ts.length; k++) if (!isElement(ts[k].parentNode, 'rPh')) inline += ts[k].textContent;
+        }
+        out.push([index, col, cell.getAttribute('t') || undefined, child('v')?.textContent ?? undefined, inline, child('f')?.textContent ?? undefined]);
+      }
+    }
+    return out;
+  };
+  test('every cell is read as xmldom reads it', () => {
+    fc.assert(fc.property(layout, (l) => {
+      const xml = sheetXml(l);
+      const got = parseSheet('S', 'p', xml).rows.flatMap((r) => r.cells.map((c) => [c.row, c.col, c.type, c.value, c.inline, c.formula?.text]));
+      expect(got).toEqual(expected(xml));
+    }), { seed: 20261203, numRuns: 300 });
   });
 });

@@ -202,6 +202,31 @@ function canonicalSlopePoint(iso: Isotherm, br: Branch, m: number, estimate: num
 const tangentOut = new Float64Array(4);
 
 /**
+ * One Newton step on the common-tangent equations at (u', u'') = (u1, u2):
+ *   G1 = g'(x') - g'(x'') = 0,  G2 = mu_A(x') - mu_A(x'') = 0,
+ * with d g'/du = c = x y g'' and d mu_A/du = -x c. Writes du', du'', x', x'', c', c'' into
+ * `stepOut` and g, g', g'' at each point into der1, der2 (no allocation), for newtonTangent and tangentNewton.
+ */
+function tangentStep(iso: Isotherm, u1: number, u2: number, der1: Float64Array, der2: Float64Array): void {
+  splitRatio(u1, xyCell);
+  const x1 = xyCell[0], y1 = xyCell[1];
+  splitRatio(u2, xyCell);
+  const x2 = xyCell[0], y2 = xyCell[1];
+  iso.derivatives(x1, y1, der1);
+  iso.derivatives(x2, y2, der2);
+  const d1 = der1[1], d2 = der2[1];
+  const G1 = d1 - d2;
+  const G2 = der1[0] - x1 * d1 - (der2[0] - x2 * d2);
+  const c1 = x1 * y1 * der1[2], c2 = x2 * y2 * der2[2];
+  // c1 du1 - c2 du2 = -G1;  -x1 c1 du1 + x2 c2 du2 = -G2
+  const b = -(G2 + x1 * G1) / (x2 - x1);
+  stepOut[0] = (b - G1) / c1;
+  stepOut[1] = b / c2;
+  stepOut[2] = x1; stepOut[3] = x2; stepOut[4] = c1; stepOut[5] = c2;
+}
+const stepOut = new Float64Array(6);
+
+/**
  * newton (roots.ts) of the common-tangent equations in (u', u'') jointly (as tangentNewton), from the
  * midpoints of cells i1 (branch j) and i2 (branch k), its own copy of the rule in two unknowns: it
  * stops when both steps are below NEWTON_STEP max(1, |u|). The error bound: the equations' rounding
@@ -213,19 +238,9 @@ function newtonTangent(iso: Isotherm, j: Branch, k: Branch, i1: number, i2: numb
   let u1 = (i1 + 0.5) * CELL, u2 = (i2 + 0.5) * CELL;
   for (let iter = 0; iter < 30; iter++) {
     if (!(u1 > j.a && u1 < j.b && u2 > k.a && u2 < k.b && u1 > -U_LIMIT && u2 < U_LIMIT)) return false;
-    splitRatio(u1, xyCell);
-    const x1 = xyCell[0], y1 = xyCell[1];
-    splitRatio(u2, xyCell);
-    const x2 = xyCell[0], y2 = xyCell[1];
-    iso.derivatives(x1, y1, derCell1);
-    iso.derivatives(x2, y2, derCell2);
+    tangentStep(iso, u1, u2, derCell1, derCell2);
+    const du1 = stepOut[0], du2 = stepOut[1], x1 = stepOut[2], x2 = stepOut[3], c1 = stepOut[4], c2 = stepOut[5];
     const d1 = derCell1[1], d2 = derCell2[1];
-    const G1 = d1 - d2;
-    const G2 = derCell1[0] - x1 * d1 - (derCell2[0] - x2 * d2);
-    const c1 = x1 * y1 * derCell1[2], c2 = x2 * y2 * derCell2[2];
-    // c1 du1 - c2 du2 = -G1;  -x1 c1 du1 + x2 c2 du2 = -G2
-    const b = -(G2 + x1 * G1) / (x2 - x1);
-    const du1 = (b - G1) / c1, du2 = b / c2;
     if (!Number.isFinite(du1) || !Number.isFinite(du2)) return false;
     if (Math.abs(du1) <= NEWTON_STEP * Math.max(1, Math.abs(u1)) && Math.abs(du2) <= NEWTON_STEP * Math.max(1, Math.abs(u2))) {
       const RT = iso.RT;
@@ -308,20 +323,8 @@ function tangentNewton(iso: Isotherm, u1: number, u2: number, s1: number, s2: nu
   for (let iter = 0; iter < 8; iter++) {
     if (!(u1 < s1 && u2 > s2)) return false;
     if (!(u1 > -U_LIMIT && u2 < U_LIMIT)) return false; // the full solve says why (DILUTE_LIMIT)
-    splitRatio(u1, xyCell);
-    const x1 = xyCell[0], y1 = xyCell[1];
-    splitRatio(u2, xyCell);
-    const x2 = xyCell[0], y2 = xyCell[1];
-    iso.derivatives(x1, y1, derEstimate1);
-    iso.derivatives(x2, y2, derEstimate2);
-    const d1 = derEstimate1[1], d2 = derEstimate2[1];
-    const G1 = d1 - d2;
-    const G2 = derEstimate1[0] - x1 * d1 - (derEstimate2[0] - x2 * d2);
-    const c1 = x1 * y1 * derEstimate1[2], c2 = x2 * y2 * derEstimate2[2];
-    // c1 du1 - c2 du2 = -G1;  -x1 c1 du1 + x2 c2 du2 = -G2
-    const b = -(G2 + x1 * G1) / (x2 - x1);
-    const a = b - G1;
-    const du1 = a / c1, du2 = b / c2;
+    tangentStep(iso, u1, u2, derEstimate1, derEstimate2);
+    const du1 = stepOut[0], du2 = stepOut[1];
     if (!Number.isFinite(du1) || !Number.isFinite(du2)) return false;
     u1 += du1;
     u2 += du2;

@@ -14,6 +14,7 @@ import { describe, expect, it } from 'vitest';
 import { forgetSolves } from '../../src/core/equilibrium';
 import type { FormulaResult } from '../../src/hosts/evaluate';
 import { evaluateIn, generatedMetadata } from './support/evaluate';
+import { generator, shuffled } from './support/random';
 
 const RK = '{"model","rk";"AB.L0",13.5;"AB.L0.b",-0.005;"AB.L1",1.2;"AC.L0",2;"BC.L0",-1;"ABC.M",3;"energy","kJ/mol";"temperature","°C";"name A","water";"name B","tarnol";"name C","quellic acid"}';
 const NRTL = '{"model","nrtl";"AB.a12",-0.5;"AB.b12",1100;"AB.a21",0.6;"AB.b21",450;"AB.alpha",0.25;"AC.b12",-150;"AC.b21",250;"AC.alpha",0.3;"BC.b12",-200;"BC.b21",100;"BC.alpha",0.3}';
@@ -55,26 +56,6 @@ const CASES: Array<{ formula: string; warm: string[] }> = [
   { formula: `=MIXGAP.TCRIT(MIXGAP.FITMODEL(${BLEND_START}, ${cloudData(CLOUDS)}, , FALSE))`, warm: [`=MIXGAP.GAPLOW(150, MIXGAP.FITMODEL(${BLEND_START}, ${cloudData(CLOUDS.slice(0, 6))}, , FALSE))`] },
   { formula: `=MIXGAP.UNCERTAINTY("TCRIT", MIXGAP.FITMODEL(${BLEND_START}, ${cloudData(CLOUDS)}))`, warm: [`=MIXGAP.UNCERTAINTY("GAPLOW", 150, MIXGAP.FITMODEL(${BLEND_START}, ${cloudData(CLOUDS)}))`] },
 ];
-
-/** mulberry32: a small seeded generator (common practice, no published source). */
-function generator(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = Math.imul(a ^ (a >>> 15), 1 | a);
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-function shuffled<T>(items: readonly T[], random: () => number): T[] {
-  const out = items.slice();
-  for (let i = out.length - 1; i > 0; i--) {
-    const j = Math.floor(random() * (i + 1));
-    [out[i], out[j]] = [out[j], out[i]];
-  }
-  return out;
-}
 
 /** A result with every number as the hex of its float64 bits (errors by code only). */
 type Shown = string | Shown[];

@@ -12,26 +12,7 @@ import { describe, expect, it } from 'vitest';
 import { forgetSolves } from '../../src/core/equilibrium';
 import * as fns from '../../src/functions/functions';
 import { evaluate, FORMULAS, formulaText, hexOf, type Formula, type Shown } from './fixed-results';
-
-/** mulberry32: a small seeded generator (common practice, no published source). */
-function generator(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = Math.imul(a ^ (a >>> 15), 1 | a);
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-function shuffled<T>(items: readonly T[], random: () => number): T[] {
-  const out = items.slice();
-  for (let i = out.length - 1; i > 0; i--) {
-    const j = Math.floor(random() * (i + 1));
-    [out[i], out[j]] = [out[j], out[i]];
-  }
-  return out;
-}
+import { generator, shuffled } from './support/random';
 
 const fresh = new Map<string, Shown>();
 const freshOf = (f: Formula) => {

@@ -10,6 +10,7 @@ import { describe, expect, it } from 'vitest';
 import { forgetSolves } from '../../src/core/equilibrium';
 import { gapHigh, gapLow, spinLow } from '../../src/functions/functions';
 import { gapBand, uncertainty } from '../../src/functions/uncertainty';
+import { generator } from './support/random';
 
 type Card = any[][];
 const U = uncertainty as (name: string, ...args: unknown[]) => number;
@@ -42,17 +43,6 @@ function shown(f: Formula): unknown {
   } catch (e) {
     return `error ${(e as { code?: string }).code}: ${(e as { message?: string }).message}`;
   }
-}
-
-/** mulberry32: a small seeded generator (common practice, no published source). */
-function generator(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = Math.imul(a ^ (a >>> 15), 1 | a);
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
 }
 
 describe('UNCERTAINTY does not depend on what was computed before', () => {

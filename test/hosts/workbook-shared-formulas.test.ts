@@ -7,7 +7,6 @@
  * a reference to another sheet, and a sheet the engine numbers before the workbook's first ("2024").
  * Expected values are the formulas' arithmetic (common practice, no published source).
  */
-import JSZip from 'jszip';
 import { DetailedCellError } from 'hyperformula';
 import type { SimpleCellAddress } from 'hyperformula';
 import { describe, expect, test } from 'vitest';
@@ -16,23 +15,15 @@ import type { EngineContent } from '../../src/hosts/engine';
 import { parseA1 } from '../../src/hosts/a1';
 import { evaluateWorkbook, WORKBOOK_ENGINE_CONFIG } from '../../src/hosts/workbook';
 import { readPackage } from '../../src/hosts/xlsx-package';
-
-const NS = 'http://schemas.openxmlformats.org/spreadsheetml/2006/main';
-const R = 'http://schemas.openxmlformats.org/officeDocument/2006/relationships';
+import { dataAnd2024Book } from './support/book';
 
 const cell = (ref: string, inner: string) => `<c r="${ref}">${inner}</c>`;
 const shared = (si: number, text = '', ref?: string) => (text ? `<f t="shared"${ref ? ` ref="${ref}"` : ''} si="${si}">${text}</f>` : `<f t="shared" si="${si}"/>`);
 
-async function book(): Promise<Buffer> {
-  const zip = new JSZip();
-  zip.file('_rels/.rels', `<Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships"><Relationship Id="rId1" Type="${R}/officeDocument" Target="xl/workbook.xml"/></Relationships>`);
-  zip.file('xl/workbook.xml', `<workbook xmlns="${NS}" xmlns:r="${R}"><sheets><sheet name="Data" sheetId="1" r:id="rId1"/><sheet name="2024" sheetId="2" r:id="rId2"/></sheets>`
-    + `<definedNames><definedName name="k" localSheetId="1">'2024'!$H$1</definedName></definedNames></workbook>`);
-  zip.file('xl/_rels/workbook.xml.rels', `<Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships"><Relationship Id="rId1" Type="${R}/worksheet" Target="worksheets/sheet1.xml"/><Relationship Id="rId2" Type="${R}/worksheet" Target="worksheets/sheet2.xml"/></Relationships>`);
+function book(): Promise<Buffer> {
   // Data: A1 = 1000, and B1:B3 = $A$1 + ROW() moved down (B1 first).
-  zip.file('xl/worksheets/sheet1.xml', `<worksheet xmlns="${NS}"><sheetData>`
-    + `<row r="1">${cell('A1', '<v>1000</v>')}${cell('B1', shared(0, '$A$1+ROW()', 'B1:B3'))}</row>`
-    + `<row r="2">${cell('B2', shared(0))}</row><row r="3">${cell('B3', shared(0))}</row></sheetData></worksheet>`);
+  const data = `<row r="1">${cell('A1', '<v>1000</v>')}${cell('B1', shared(0, '$A$1+ROW()', 'B1:B3'))}</row>`
+    + `<row r="2">${cell('B2', shared(0))}</row><row r="3">${cell('B3', shared(0))}</row>`;
   // 2024: A1:A6 = 1..6, H1 = 0.5 (the name k).
   const rows: string[] = [];
   for (let r = 1; r <= 6; r++) {
@@ -52,8 +43,7 @@ async function book(): Promise<Buffer> {
   // Row 8: A1*1000 moved right (I8:K8 read A1, B1, C1); XFC8:XFD8: XFD1+1 moved right, past the last column in XFD8.
   rows.push(`<row r="8">${cell('I8', shared(6, 'A1*1000', 'I8:K8'))}${cell('J8', shared(6))}${cell('K8', shared(6))}`
     + `${cell('XFC8', shared(8, 'XFD1+1', 'XFC8:XFD8'))}${cell('XFD8', shared(8))}</row>`);
-  zip.file('xl/worksheets/sheet2.xml', `<worksheet xmlns="${NS}"><sheetData>${rows.join('')}</sheetData></worksheet>`);
-  return zip.generateAsync({ type: 'nodebuffer' });
+  return dataAnd2024Book("'2024'!$H$1", data, rows.join(''));
 }
 
 describe('shared formulas read once per block', () => {

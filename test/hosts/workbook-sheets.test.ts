@@ -4,24 +4,15 @@
  * OrdinaryOwnPropertyKeys; section number from memory) after a sheet "Data", with a name local to
  * it. Expected values are the formulas' arithmetic (common practice, no published source).
  */
-import JSZip from 'jszip';
 import { describe, expect, test } from 'vitest';
 import { buildEngine } from '../../src/hosts/engine';
 import { evaluateWorkbook, WORKBOOK_ENGINE_CONFIG } from '../../src/hosts/workbook';
 import { readPackage } from '../../src/hosts/xlsx-package';
+import { dataAnd2024Book } from './support/book';
 
-const NS = 'http://schemas.openxmlformats.org/spreadsheetml/2006/main';
-const R = 'http://schemas.openxmlformats.org/officeDocument/2006/relationships';
-
-async function book(): Promise<Buffer> {
-  const zip = new JSZip();
-  zip.file('_rels/.rels', `<Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships"><Relationship Id="rId1" Type="${R}/officeDocument" Target="xl/workbook.xml"/></Relationships>`);
-  zip.file('xl/workbook.xml', `<workbook xmlns="${NS}" xmlns:r="${R}"><sheets><sheet name="Data" sheetId="1" r:id="rId1"/><sheet name="2024" sheetId="2" r:id="rId2"/></sheets>`
-    + `<definedNames><definedName name="k" localSheetId="1">'2024'!$A$1</definedName></definedNames></workbook>`);
-  zip.file('xl/_rels/workbook.xml.rels', `<Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships"><Relationship Id="rId1" Type="${R}/worksheet" Target="worksheets/sheet1.xml"/><Relationship Id="rId2" Type="${R}/worksheet" Target="worksheets/sheet2.xml"/></Relationships>`);
-  zip.file('xl/worksheets/sheet1.xml', `<worksheet xmlns="${NS}"><sheetData><row r="1"><c r="A1"><v>5</v></c></row><row r="2"><c r="B2"><f>SUM(1,2)</f></c></row></sheetData></worksheet>`);
-  zip.file('xl/worksheets/sheet2.xml', `<worksheet xmlns="${NS}"><sheetData><row r="1"><c r="A1"><f>Data!A1*2</f></c><c r="B1"><f>A1+1</f></c><c r="C1"><f>k*3</f></c></row></sheetData></worksheet>`);
-  return zip.generateAsync({ type: 'nodebuffer' });
+function book(): Promise<Buffer> {
+  return dataAnd2024Book("'2024'!$A$1", '<row r="1"><c r="A1"><v>5</v></c></row><row r="2"><c r="B2"><f>SUM(1,2)</f></c></row>',
+    '<row r="1"><c r="A1"><f>Data!A1*2</f></c><c r="B1"><f>A1+1</f></c><c r="C1"><f>k*3</f></c></row>');
 }
 
 describe('evaluateWorkbook', () => {

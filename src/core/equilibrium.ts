@@ -3,7 +3,7 @@ import { criticalPoint, criticalPoints, noCriticalPoint, type CriticalPoint } fr
 import { BoundedCache } from './boundedCache';
 import { fail, kelvin, msg } from './errors';
 import { WARM_WINDOW } from './limits';
-import type { BinaryModel } from './model';
+import type { BinaryModel, Isotherm } from './model';
 import { pointAt } from './model';
 
 /**
@@ -125,19 +125,21 @@ export function equilibriumAt(model: BinaryModel, T: number): PhaseMap {
   const known = lookup(state.id, T);
   if (known) return known;
   const iso = model.at(T);
-  if (state.follows) {
-    const from = equilibriumAt(state.follows, T);
-    const map = continueMap(iso, from) ?? phaseMap(iso, from);
-    state.last = map;
-    store(state.id, map);
-    return map;
-  }
-  const hint = (state.parent && parentMap(state.parent, T))
-    ?? (state.last && Math.abs(state.last.T - T) < WARM_WINDOW * T ? state.last : undefined);
-  const map = phaseMap(iso, hint);
+  const map = state.follows ? followed(iso, equilibriumAt(state.follows, T)) : phaseMap(iso, warmStart(state, T));
   state.last = map;
   store(state.id, map);
   return map;
+}
+
+/** A central difference's map (see movedFrom): followed from its parent's, else solved from there. */
+function followed(iso: Isotherm, from: PhaseMap): PhaseMap {
+  return continueMap(iso, from) ?? phaseMap(iso, from);
+}
+
+/** Where a solve at T starts: a moved model's parent's map at T, else the model's own last map within WARM_WINDOW. */
+function warmStart(state: ModelState, T: number): PhaseMap | undefined {
+  return (state.parent && parentMap(state.parent, T))
+    ?? (state.last && Math.abs(state.last.T - T) < WARM_WINDOW * T ? state.last : undefined);
 }
 
 /** Every critical point of the model between 1 K and 20000 K, highest first; computed once. */

@@ -492,11 +492,9 @@ export function continueMap(iso: Isotherm, prev: PhaseMap, before?: PhaseMap, be
   if (!followable(prev)) return undefined;
   const b = before && followable(before) ? before : undefined;
   const c = b && beforeThat && followable(beforeThat) ? beforeThat : undefined;
-  aheadWeights(iso.T, prev, b, c);
-  let e1: number | undefined = ahead(0, prev, b, c);
-  if (!aheadSettled) e1 = followRoot(iso, e1);
-  let e2: number | undefined = ahead(1, prev, b, c);
-  if (!aheadSettled) e2 = followRoot(iso, e2);
+  extrapolate(iso.T, prev, b, c);
+  const e1 = settled[0] ? estimates[0] : followRoot(iso, estimates[0]);
+  const e2 = settled[1] ? estimates[1] : followRoot(iso, estimates[1]);
   if (e1 === undefined || e2 === undefined) return undefined;
   const s1 = spinodalRootNear(iso, e1), s2 = spinodalRootNear(iso, e2);
   if (s1 === undefined || s2 === undefined || !(s1 < s2)) return undefined;
@@ -507,7 +505,7 @@ export function continueMap(iso: Isotherm, prev: PhaseMap, before?: PhaseMap, be
   k.a = s2; k.slopeLow = iso.dg(spinodal[1].x, spinodal[1].y); k.guess = s2 + 1;
   if (nearCritical(iso, j, k)) return { T: iso.T, gaps: [criticalGap(iso, s1, s2)], spinodal };
   // canonicalGap's first solve starts from the cells of the estimates, settled or not
-  const gap = canonicalGap(iso, j, k, ahead(2, prev, b, c), ahead(3, prev, b, c));
+  const gap = canonicalGap(iso, j, k, estimates[2], estimates[3]);
   return gap && { T: iso.T, gaps: [gap], spinodal };
 }
 const lowBranch: Branch = { a: -Infinity, b: 0, slopeLow: -Infinity, slopeHigh: 0, guess: 0 };
@@ -518,50 +516,59 @@ function followable(map: PhaseMap): boolean {
   return map.spinodal.length === 2 && map.gaps.length === 1;
 }
 
-/** Point `which` (0, 1: the spinodal points; 2, 3: the gap's boundaries) of a followable map, in u. */
-function pointOf(map: PhaseMap, which: number): number {
-  return which < 2 ? map.spinodal[which].u : which === 2 ? map.gaps[0].low.u : map.gaps[0].high.u;
-}
-
-/** Whether the last `ahead` answer has settled (see SETTLED). */
-let aheadSettled = false;
 /**
- * The weights of u0, u1, u2 (the point at prev.T, before.T, beforeThat.T) in Lagrange's polynomial
- * through them at T, and of u0 - u1 in the linear extrapolation: the same for every point of a row.
+ * The points a row follows (0, 1: the spinodal points; 2, 3: the gap's boundaries) in u, at the
+ * temperature of the row (see extrapolate), and whether each has settled (see SETTLED).
  */
-const weights = new Float64Array(4);
+const estimates = new Float64Array(4);
+const settled = [false, false, false, false];
+/** The same points in the maps extrapolated from: [prev (4), before (4), beforeThat (4)]. */
+const known = new Float64Array(12);
 
-/** Sets `weights` for the row at T (see ahead). */
-function aheadWeights(T: number, p: PhaseMap, b?: PhaseMap, c?: PhaseMap): void {
-  if (!b) return;
-  const t0 = p.T, t1 = b.T;
-  weights[3] = (T - t0) / (t0 - t1);
-  if (!c) return;
-  const t2 = c.T;
-  weights[0] = ((T - t1) * (T - t2)) / ((t0 - t1) * (t0 - t2));
-  weights[1] = ((T - t0) * (T - t2)) / ((t1 - t0) * (t1 - t2));
-  weights[2] = ((T - t0) * (T - t1)) / ((t2 - t0) * (t2 - t1));
+/** Writes the four points of a followable map into known[at..at + 3]. */
+function readPoints(map: PhaseMap, at: number): void {
+  known[at] = map.spinodal[0].u;
+  known[at + 1] = map.spinodal[1].u;
+  known[at + 2] = map.gaps[0].low.u;
+  known[at + 3] = map.gaps[0].high.u;
 }
 
 /**
- * Point `which` at T, extrapolated from the maps at up to three earlier temperatures (Lagrange's
- * polynomial through them, weights from aheadWeights): only a starting point, so anything not
- * finite or far from the last answer gives way to the last answer itself. Sets aheadSettled.
+ * Each point at T (into `estimates`), extrapolated from the maps at up to three earlier
+ * temperatures: Lagrange's polynomial through them (the weights of u0, u1, u2, the points at p.T,
+ * b.T, c.T, are the same for every point of a row), settled when its second-order part (quadratic
+ * minus linear extrapolation, u0 + (u0 - u1) (T - t0) / (t0 - t1)) is below SETTLED. Only a
+ * starting point: anything not finite or far from the last answer gives way to the last answer.
  */
-function ahead(which: number, p: PhaseMap, b?: PhaseMap, c?: PhaseMap): number {
-  aheadSettled = false;
-  const u0 = pointOf(p, which);
-  if (!b) return u0;
-  const u1 = pointOf(b, which);
-  const linear = u0 + (u0 - u1) * weights[3];
-  let u = linear;
-  if (c) {
-    u = u0 * weights[0] + u1 * weights[1] + pointOf(c, which) * weights[2];
-    aheadSettled = Math.abs(u - linear) <= SETTLED * Math.max(1, Math.abs(u));
+function extrapolate(T: number, p: PhaseMap, b?: PhaseMap, c?: PhaseMap): void {
+  readPoints(p, 0);
+  if (!b) {
+    for (let w = 0; w < 4; w++) { estimates[w] = known[w]; settled[w] = false; }
+    return;
   }
-  if (Number.isFinite(u) && Math.abs(u - u0) < 0.25) return u;
-  aheadSettled = false;
-  return u0;
+  readPoints(b, 4);
+  const t0 = p.T, t1 = b.T;
+  const wLinear = (T - t0) / (t0 - t1);
+  let w0 = 0, w1 = 0, w2 = 0;
+  if (c) {
+    readPoints(c, 8);
+    const t2 = c.T;
+    w0 = ((T - t1) * (T - t2)) / ((t0 - t1) * (t0 - t2));
+    w1 = ((T - t0) * (T - t2)) / ((t1 - t0) * (t1 - t2));
+    w2 = ((T - t0) * (T - t1)) / ((t2 - t0) * (t2 - t1));
+  }
+  for (let w = 0; w < 4; w++) {
+    const u0 = known[w], u1 = known[4 + w];
+    const linear = u0 + (u0 - u1) * wLinear;
+    let u = linear, done = false;
+    if (c) {
+      u = u0 * w0 + u1 * w1 + known[8 + w] * w2;
+      done = Math.abs(u - linear) <= SETTLED * Math.max(1, Math.abs(u));
+    }
+    const near = Number.isFinite(u) && Math.abs(u - u0) < 0.25;
+    estimates[w] = near ? u : u0;
+    settled[w] = near && done;
+  }
 }
 
 /** An estimate of the root of q = x y g''/RT near u, by Newton's method (undefined if it does not settle nearby). */

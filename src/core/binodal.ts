@@ -501,12 +501,31 @@ export function continueMap(iso: Isotherm, prev: PhaseMap, before?: PhaseMap, be
   const spinodal = [pointAt(s1), pointAt(s2)];
   // the two convex branches (as convexBranches gives them), in objects kept for this
   const j = lowBranch, k = highBranch;
-  j.b = s1; j.slopeHigh = iso.dg(spinodal[0].x, spinodal[0].y); j.guess = s1 - 1;
-  k.a = s2; k.slopeLow = iso.dg(spinodal[1].x, spinodal[1].y); k.guess = s2 + 1;
-  if (nearCritical(iso, j, k)) return { T: iso.T, gaps: [criticalGap(iso, s1, s2)], spinodal };
+  j.b = s1; j.guess = s1 - 1;
+  k.a = s2; k.guess = s2 + 1;
+  // g' at the spinodal points only where the near-critical test needs it (nothing else here reads it)
+  j.slopeHigh = NaN; k.slopeLow = NaN;
+  if (!farFromCritical(iso, spinodal[0], spinodal[1])) {
+    j.slopeHigh = iso.dg(spinodal[0].x, spinodal[0].y);
+    k.slopeLow = iso.dg(spinodal[1].x, spinodal[1].y);
+    if (nearCritical(iso, j, k)) return { T: iso.T, gaps: [criticalGap(iso, s1, s2)], spinodal };
+  }
   // canonicalGap's first solve starts from the cells of the estimates, settled or not
   const gap = canonicalGap(iso, j, k, estimates[2], estimates[3]);
   return gap && { T: iso.T, gaps: [gap], spinodal };
+}
+/**
+ * Whether g' falls across the unstable interval [s1, s2] by so much more than NEAR_CRITICAL_DROP RT
+ * that nearCritical is false for certain: the drop from dgRatio (no logarithms) above the threshold
+ * by 2^-30 of the sizes of the terms of g' at both points, a million times the rounding of either
+ * way of computing it. When this does not settle it, the slopes are computed as convexBranches
+ * computes them and nearCritical decides, as in phaseMap.
+ */
+function farFromCritical(iso: Isotherm, p1: Point, p2: Point): boolean {
+  const RT = iso.RT;
+  const d1 = iso.dgRatio(p1.u, p1.x, p1.y), d2 = iso.dgRatio(p2.u, p2.x, p2.y);
+  const size = RT * (4 + Math.abs(p1.u) + Math.abs(p2.u)) + Math.abs(d1) + Math.abs(d2) + Math.abs(d1 - RT * p1.u) + Math.abs(d2 - RT * p2.u);
+  return d1 - d2 > NEAR_CRITICAL_DROP * RT + 2 ** -30 * size;
 }
 const lowBranch: Branch = { a: -Infinity, b: 0, slopeLow: -Infinity, slopeHigh: 0, guess: 0 };
 const highBranch: Branch = { a: 0, b: Infinity, slopeLow: 0, slopeHigh: Infinity, guess: 0 };

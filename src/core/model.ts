@@ -38,6 +38,12 @@ export interface Isotherm {
   /** d3g/dx3. */
   d3g(x: number, y: number): number;
   /**
+   * g' at the composition of log-ratio u = ln(x / y) (x, y from it), with RT ln(x / y) taken as
+   * RT u where the model has that term: the same quantity as dg to rounding, without logarithms.
+   * For bounds only (continueMap's near-critical test); results use dg.
+   */
+  dgRatio(u: number, x: number, y: number): number;
+  /**
    * g, g' and g'' at once, into out[0], out[1], out[2] (no allocation; for the solvers' inner
    * loops): the logarithms and the polynomial are computed once. Each is the same bits as g, dg
    * and d2g return, computed by the same operations in the same order.

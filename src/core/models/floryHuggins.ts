@@ -59,6 +59,11 @@ class FloryHugginsIsotherm implements Isotherm {
     return this.RT * ((Math.log(x) + 1) / this.NB - (Math.log(y) + 1) / this.NA + this.chi * (y - x));
   }
 
+  /** ln x and ln y enter with different weights: no shortcut. */
+  dgRatio(_u: number, x: number, y: number): number {
+    return this.dg(x, y);
+  }
+
   d2g(x: number, y: number): number {
     return this.RT * (1 / (this.NB * x) + 1 / (this.NA * y) - 2 * this.chi);
   }

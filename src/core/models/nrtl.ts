@@ -74,6 +74,10 @@ class NrtlIsotherm implements Isotherm {
     return this.RT * (Math.log(x) - Math.log(y)) + this.excess(x, y, 1);
   }
 
+  dgRatio(u: number, x: number, y: number): number {
+    return this.RT * u + this.excess(x, y, 1);
+  }
+
   d2g(x: number, y: number): number {
     return this.RT / (x * y) + this.excess(x, y, 2);
   }

@@ -23,9 +23,11 @@ export function redlichKister(terms: readonly RedlichKisterTerm[]): BinaryModel 
   });
   const frozen = terms.map((t) => ({ a: t.a, b: t.b, c: t.c }));
   const key = 'RK:' + frozen.map((t) => `${t.a},${t.b},${t.c}`).join(';');
+  // ln T only when a term has a c T ln T part (the same L_k: c T ln T is then zero either way)
+  const withLog = frozen.some((t) => t.c !== 0);
   return {
     key,
-    at: (T) => redlichKisterAt(frozen, T),
+    at: (T) => redlichKisterAt(frozen, T, withLog),
   };
 }
 
@@ -99,12 +101,12 @@ export const redlichKisterFamily: ModelFamily = {
   },
 };
 
-function redlichKisterAt(terms: readonly RedlichKisterTerm[], T: number): Isotherm {
+function redlichKisterAt(terms: readonly RedlichKisterTerm[], T: number, withLog: boolean): Isotherm {
   // A plain array (not a Float64Array): one isotherm per row of a sweep, and a typed array costs
   // far more to allocate; built by push, so that it holds doubles from the start (an array filled
   // with 0 first holds small integers and is copied when the first double is written).
   const L: number[] = [];
-  const lnT = Math.log(T);
+  const lnT = withLog ? Math.log(T) : 0;
   for (let k = 0; k < terms.length; k++) L.push(terms[k].a + terms[k].b * T + terms[k].c * T * lnT);
   return new RedlichKisterIsotherm(L, T);
 }
@@ -143,6 +145,16 @@ class RedlichKisterIsotherm implements Isotherm {
       P = P * d + L[k];
     }
     return this.RT * (Math.log(x) - Math.log(y)) + d * P - 2 * x * y * P1;
+  }
+
+  dgRatio(u: number, x: number, y: number): number {
+    const L = this.L, d = y - x;
+    let P = 0, P1 = 0;
+    for (let k = L.length - 1; k >= 0; k--) {
+      P1 = P1 * d + P;
+      P = P * d + L[k];
+    }
+    return this.RT * u + d * P - 2 * x * y * P1;
   }
 
   d2g(x: number, y: number): number {

@@ -54,3 +54,30 @@ describe('derivatives(x, y) gives the bits of g, dg and d2g (seed 4242)', () => 
     });
   }
 });
+
+/**
+ * `dgRatio(u, x, y)` (g' with RT ln(x/y) taken as RT u, for continueMap's near-critical bound) is
+ * the same quantity as dg: within 1e-13 of the sizes of g''s terms, RT (2 + |u|) + |excess part|
+ * (tolerance: both are rounded sums of terms of that size, about 1e-16 each; 1e-13 leaves room for
+ * the rounding of x and y themselves, whose logarithms dg takes, far below the 2^-30 margin
+ * continueMap allows for it).
+ */
+describe('dgRatio(u, x, y) agrees with dg (seed 4243)', () => {
+  for (const [name, model] of models) {
+    it(name, () => {
+      const next = uniform(4243);
+      const xy = new Float64Array(2);
+      for (const T of [250, 313.15, 800, 1500]) {
+        const iso = model.at(T);
+        for (let i = 0; i < 500; i++) {
+          const u = -60 + 120 * next();
+          splitRatio(u, xy);
+          const [x, y] = xy;
+          const exact = iso.dg(x, y), fast = iso.dgRatio(u, x, y);
+          const size = iso.RT * (2 + Math.abs(u)) + Math.abs(exact - iso.RT * u);
+          expect(Math.abs(fast - exact), `u = ${u}, T = ${T}`).toBeLessThanOrEqual(1e-13 * size);
+        }
+      }
+    });
+  }
+});

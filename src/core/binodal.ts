@@ -590,14 +590,19 @@ function extrapolate(T: number, p: PhaseMap, b?: PhaseMap, c?: PhaseMap): void {
   }
 }
 
+/** g'' and g''' at followRoot's point. */
+const curvFollow = new Float64Array(2);
+
 /** An estimate of the root of q = x y g''/RT near u, by Newton's method (undefined if it does not settle nearby). */
 function followRoot(iso: Isotherm, u: number): number | undefined {
   const start = u;
   for (let iter = 0; iter < 12; iter++) {
     splitRatio(u, xyCell);
-    const x = xyCell[0], y = xyCell[1], d2 = iso.d2g(x, y);
+    const x = xyCell[0], y = xyCell[1];
+    iso.curvatures(x, y, curvFollow);
+    const d2 = curvFollow[0];
     // q / (dq/du) = g'' / ((y - x) g'' + x y g''')
-    const step = d2 / ((y - x) * d2 + x * y * iso.d3g(x, y));
+    const step = d2 / ((y - x) * d2 + x * y * curvFollow[1]);
     if (!Number.isFinite(step)) return undefined;
     u -= step;
     if (Math.abs(u - start) > 0.5) return undefined;

@@ -23,8 +23,20 @@ function scaledCurvature(iso: Isotherm, x: number, y: number): number {
 }
 
 function scaledCurvatureSlope(iso: Isotherm, x: number, y: number): number {
-  return (x * y * ((y - x) * iso.d2g(x, y) + x * y * iso.d3g(x, y))) / iso.RT;
+  iso.curvatures(x, y, curv);
+  return (x * y * ((y - x) * curv[0] + x * y * curv[1])) / iso.RT;
 }
+/** g'' and g''' from Isotherm.curvatures. */
+const curv = new Float64Array(2);
+
+/** q at the first n points of (x, y), into out: scaledCurvature at each, the same bits, in one model call. */
+function qEach(iso: Isotherm, x: Float64Array, y: Float64Array, n: number, out: Float64Array): void {
+  iso.d2gEach(x, y, n, out);
+  const RT = iso.RT;
+  for (let i = 0; i < n; i++) out[i] = (x[i] * y[i] * out[i]) / RT;
+}
+/** A batch of two points for qEach (the ends of a grid or of a cell) and q there. */
+const pairX = new Float64Array(2), pairY = new Float64Array(2), pairQ = new Float64Array(2);
 
 /** A local minimum of q, refined. */
 export interface CurvatureMinimum {
@@ -94,7 +106,7 @@ export function curvatureMap(iso: Isotherm, refineAll = true): CurvatureMap {
     const { points, x, y } = gridFor(U);
     const n = points.length;
     const q = n <= qBuffer.length ? qBuffer.subarray(0, n) : new Float64Array(n);
-    for (let i = 0; i < n; i++) q[i] = scaledCurvature(iso, x[i], y[i]);
+    qEach(iso, x, y, n, q);
     if (!(q[0] > 0 && q[n - 1] > 0)) {
       if (Number.isNaN(q[0]) || Number.isNaN(q[n - 1])) fail('range', msg`the model overflows at T = ${kelvin(iso.T)}: its parameters are too large for this temperature`);
       continue; // still unstable at the sampled ends: sample wider
@@ -170,16 +182,29 @@ function signedQ(t: number): number {
 }
 function signedQNewton(t: number, out: Float64Array): number {
   splitRatio(t, xyRoot);
-  const iso = rootIso, x = xyRoot[0], y = xyRoot[1], d2 = iso.d2g(x, y);
+  const iso = rootIso, x = xyRoot[0], y = xyRoot[1];
+  iso.curvatures(x, y, curv);
+  const d2 = curv[0];
   // scaledCurvatureSlope and scaledCurvature, with g'' computed once
-  out[0] = rootSign * ((x * y * ((y - x) * d2 + x * y * iso.d3g(x, y))) / iso.RT);
+  out[0] = rootSign * ((x * y * ((y - x) * d2 + x * y * curv[1])) / iso.RT);
   return rootSign * ((x * y * d2) / iso.RT);
+}
+/** signedQ at both ends of cell i, into pairQ (one model call). */
+function signedQEnds(i: number): void {
+  splitRatio(i * CELL, xyRoot);
+  pairX[0] = xyRoot[0]; pairY[0] = xyRoot[1];
+  splitRatio((i + 1) * CELL, xyRoot);
+  pairX[1] = xyRoot[0]; pairY[1] = xyRoot[1];
+  qEach(rootIso, pairX, pairY, 2, pairQ);
+  pairQ[0] *= rootSign;
+  pairQ[1] *= rootSign;
 }
 
 /** signCell (roots.ts) of signedQ, its own copy of the rule (see there). */
 function signCellQ(estimate: number, out: SignCell): SignCell | undefined {
   let i = Math.floor(estimate / CELL);
-  let fa = signedQ(i * CELL), fb = signedQ((i + 1) * CELL);
+  signedQEnds(i);
+  let fa = pairQ[0], fb = pairQ[1];
   for (let walk = 0; walk < 16; walk++) {
     if (fa < 0 && fb >= 0) {
       out.a = i * CELL; out.b = (i + 1) * CELL; out.fa = fa; out.fb = fb;
@@ -228,7 +253,9 @@ function samplingGrid(iso: Isotherm): Grid | undefined {
   gridChosen = undefined;
   for (const U of RANGES) {
     const grid = gridFor(U), { x, y } = grid, n = x.length;
-    const q0 = scaledCurvature(iso, x[0], y[0]), qn = scaledCurvature(iso, x[n - 1], y[n - 1]);
+    pairX[0] = x[0]; pairY[0] = y[0]; pairX[1] = x[n - 1]; pairY[1] = y[n - 1];
+    qEach(iso, pairX, pairY, 2, pairQ);
+    const q0 = pairQ[0], qn = pairQ[1];
     if (q0 > 0 && qn > 0) return (gridChosen = grid);
     if (Number.isNaN(q0) || Number.isNaN(qn)) break;
   }
@@ -267,7 +294,9 @@ export function spinodalRootNear(iso: Isotherm, estimate: number): number | unde
   }
   lastCells[1] = lastCells[0];
   lastCells[0] = lo;
-  const qa = scaledCurvature(iso, x[lo], y[lo]), qb = scaledCurvature(iso, x[hi], y[hi]);
+  pairX[0] = x[lo]; pairY[0] = y[lo]; pairX[1] = x[hi]; pairY[1] = y[hi];
+  qEach(iso, pairX, pairY, 2, pairQ);
+  const qa = pairQ[0], qb = pairQ[1];
   if (qa > 0 === qb > 0) return undefined;
   return canonicalRoot(iso, estimate, qa > 0 ? -1 : 1) ?? spinodalRoot(iso, u[lo], u[hi], qa, qb);
 }

@@ -38,6 +38,17 @@ export interface Isotherm {
   /** d3g/dx3. */
   d3g(x: number, y: number): number;
   /**
+   * g'' and g''' at once, into out[0] and out[1] (no allocation; for Newton's method on the
+   * curvature): the same bits as d2g and d3g.
+   */
+  curvatures(x: number, y: number, out: Float64Array): void;
+  /**
+   * g'' at the first n compositions of (x, y), into out: the same bits as d2g at each. One call for
+   * a batch of points (a sampling grid, the ends of a cell), so that a solver working with several
+   * models makes one dispatch for the batch, not one per point.
+   */
+  d2gEach(x: Float64Array, y: Float64Array, n: number, out: Float64Array): void;
+  /**
    * g' at the composition of log-ratio u = ln(x / y) (x, y from it), with RT ln(x / y) taken as
    * RT u where the model has that term: the same quantity as dg to rounding, without logarithms.
    * For bounds only (continueMap's near-critical test); results use dg.

@@ -80,6 +80,15 @@ class FloryHugginsIsotherm implements Isotherm {
   d3g(x: number, y: number): number {
     return this.RT * (1 / (this.NA * y * y) - 1 / (this.NB * x * x));
   }
+
+  curvatures(x: number, y: number, out: Float64Array): void {
+    out[0] = this.d2g(x, y);
+    out[1] = this.d3g(x, y);
+  }
+
+  d2gEach(x: Float64Array, y: Float64Array, n: number, out: Float64Array): void {
+    for (let i = 0; i < n; i++) out[i] = this.d2g(x[i], y[i]);
+  }
 }
 
 /** Cards `model | flory-huggins` (or fh): chain lengths NA, NB and chi = chi.A + chi.B / T. */

@@ -86,6 +86,15 @@ class NrtlIsotherm implements Isotherm {
     return this.RT * (1 / (y * y) - 1 / (x * x)) + this.excess(x, y, 3);
   }
 
+  curvatures(x: number, y: number, out: Float64Array): void {
+    out[0] = this.d2g(x, y);
+    out[1] = this.d3g(x, y);
+  }
+
+  d2gEach(x: Float64Array, y: Float64Array, n: number, out: Float64Array): void {
+    for (let i = 0; i < n; i++) out[i] = this.d2g(x[i], y[i]);
+  }
+
   derivatives(x: number, y: number, out: Float64Array): void {
     const logX = Math.log(x), logY = Math.log(y);
     // the expressions of g, dg and d2g, term for term

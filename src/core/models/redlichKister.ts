@@ -194,6 +194,24 @@ class RedlichKisterIsotherm implements Isotherm {
     }
     return this.RT * (1 / (y * y) - 1 / (x * x)) + 12 * P1 + 24 * d * H2 - 48 * x * y * H3;
   }
+
+  curvatures(x: number, y: number, out: Float64Array): void {
+    const L = this.L, d = y - x;
+    let P = 0, P1 = 0, H2 = 0, H3 = 0;
+    for (let k = L.length - 1; k >= 0; k--) {
+      H3 = H3 * d + H2;
+      H2 = H2 * d + P1;
+      P1 = P1 * d + P;
+      P = P * d + L[k];
+    }
+    // the expressions of d2g and d3g above, term for term
+    out[0] = this.RT / (x * y) - 2 * P - 4 * d * P1 + 8 * x * y * H2;
+    out[1] = this.RT * (1 / (y * y) - 1 / (x * x)) + 12 * P1 + 24 * d * H2 - 48 * x * y * H3;
+  }
+
+  d2gEach(x: Float64Array, y: Float64Array, n: number, out: Float64Array): void {
+    for (let i = 0; i < n; i++) out[i] = this.d2g(x[i], y[i]);
+  }
 }
 
 /** x ln x, with the limit 0 at x = 0. */

@@ -1,8 +1,9 @@
 /**
- * The fused evaluation `Isotherm.derivatives(x, y, out)` (g, g', g'' at once, used in the solvers'
- * inner loops) must give exactly the bits of `g`, `dg` and `d2g`: the solvers' canonical final
- * solves, and so every result, depend on it (the bits are our own contract, no outside source;
- * the values themselves are checked against mathjs symbolic derivatives in the other model tests).
+ * The fused evaluations `Isotherm.derivatives(x, y, out)` (g, g', g'' at once, used in the solvers'
+ * inner loops), `curvatures` (g'', g''') and the batch `d2gEach` must give exactly the bits of `g`,
+ * `dg`, `d2g` and `d3g`: the solvers' canonical final solves, and so every result, depend on it
+ * (the bits are our own contract, no outside source; the values themselves are checked against
+ * mathjs symbolic derivatives in the other model tests).
  * Seeded random compositions over the whole range, both dilute ends included.
  */
 import { describe, expect, it } from 'vitest';
@@ -31,12 +32,13 @@ const models: Array<[string, BinaryModel]> = [
   ['NRTL', nrtl({ a12: -1.2, b12: 1150, a21: 0.8, b21: 520, alpha: 0.25 })],
 ];
 
-describe('derivatives(x, y) gives the bits of g, dg and d2g (seed 4242)', () => {
+describe('derivatives, curvatures and d2gEach give the bits of g, dg, d2g and d3g (seed 4242)', () => {
   for (const [name, model] of models) {
     it(name, () => {
       const next = uniform(4242);
       const out = new Float64Array(3);
       const xy = new Float64Array(2);
+      const xs = new Float64Array(500), ys = new Float64Array(500), batch = new Float64Array(500);
       let checked = 0;
       for (const T of [250, 313.15, 800, 1500]) {
         const iso = model.at(T);
@@ -47,7 +49,16 @@ describe('derivatives(x, y) gives the bits of g, dg and d2g (seed 4242)', () => 
           expect(Object.is(out[0], iso.g(x, y)), `g at x = ${x}, T = ${T}`).toBe(true);
           expect(Object.is(out[1], iso.dg(x, y)), `g' at x = ${x}, T = ${T}`).toBe(true);
           expect(Object.is(out[2], iso.d2g(x, y)), `g'' at x = ${x}, T = ${T}`).toBe(true);
+          iso.curvatures(x, y, out);
+          expect(Object.is(out[0], iso.d2g(x, y)), `curvatures: g'' at x = ${x}, T = ${T}`).toBe(true);
+          expect(Object.is(out[1], iso.d3g(x, y)), `curvatures: g''' at x = ${x}, T = ${T}`).toBe(true);
+          xs[i] = x; ys[i] = y;
           checked++;
+        }
+        // the batch, over the same points
+        iso.d2gEach(xs, ys, 500, batch);
+        for (let i = 0; i < 500; i++) {
+          expect(Object.is(batch[i], iso.d2g(xs[i], ys[i])), `d2gEach: g'' at x = ${xs[i]}, T = ${T}`).toBe(true);
         }
       }
       expect(checked).toBe(2000);

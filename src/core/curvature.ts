@@ -62,12 +62,14 @@ interface Grid {
   y: Float64Array;
 }
 
-const grids = new Map<number, Grid>();
+/** The grid of each sampling range (RANGES[r]), built when first asked for. */
+const grids: Array<Grid | undefined> = RANGES.map(() => undefined);
 
-/** u = a sinh(b t), t uniform in [-1, 1]: spacing 0.1 at u = 0, reaching |u| = U at the ends. */
-function gridFor(U: number): Grid {
-  let grid = grids.get(U);
+/** The grid of range r: u = a sinh(b t), t uniform in [-1, 1], spacing 0.1 at u = 0, reaching |u| = RANGES[r] at the ends. */
+function gridAt(r: number): Grid {
+  let grid = grids[r];
   if (grid) return grid;
+  const U = RANGES[r];
   const N = 141;
   const du0 = 0.1;
   // a b = du0 (N - 1) / 2 and a sinh(b) = U: solve sinh(b)/b = U / (a b) for b by bisection.
@@ -86,7 +88,7 @@ function gridFor(U: number): Grid {
     x: Float64Array.from(points, (p) => p.x),
     y: Float64Array.from(points, (p) => p.y),
   };
-  grids.set(U, grid);
+  grids[r] = grid;
   return grid;
 }
 
@@ -102,8 +104,8 @@ const qBuffer = new Float64Array(256);
  * does not need their depth).
  */
 export function curvatureMap(iso: Isotherm, refineAll = true): CurvatureMap {
-  for (const U of RANGES) {
-    const { points, x, y } = gridFor(U);
+  for (let r = 0; r < RANGES.length; r++) {
+    const { points, x, y } = gridAt(r);
     const n = points.length;
     const q = n <= qBuffer.length ? qBuffer.subarray(0, n) : new Float64Array(n);
     qEach(iso, x, y, n, q);
@@ -251,8 +253,8 @@ function samplingGrid(iso: Isotherm): Grid | undefined {
   if (iso === gridIso) return gridChosen;
   gridIso = iso;
   gridChosen = undefined;
-  for (const U of RANGES) {
-    const grid = gridFor(U), { x, y } = grid, n = x.length;
+  for (let r = 0; r < RANGES.length; r++) {
+    const grid = gridAt(r), { x, y } = grid, n = x.length;
     pairX[0] = x[0]; pairY[0] = y[0]; pairX[1] = x[n - 1]; pairY[1] = y[n - 1];
     qEach(iso, pairX, pairY, 2, pairQ);
     const q0 = pairQ[0], qn = pairQ[1];

@@ -52,8 +52,12 @@ export function gapTable(model: BinaryModel, temperatures: readonly number[], n:
   const table: GapRow[] = [];
   // the last three answers (at grid temperatures) start the next row
   let hint: PhaseMap | undefined, before: PhaseMap | undefined, beforeThat: PhaseMap | undefined;
+  const criticalTs = Float64Array.from(critical, (c) => c.T);
   const criticalBetween = (a: number, b: number) => {
-    for (const c of critical) if ((c.T >= a && c.T <= b) || (c.T >= b && c.T <= a)) return true;
+    for (let k = 0; k < criticalTs.length; k++) {
+      const t = criticalTs[k];
+      if ((t >= a && t <= b) || (t >= b && t <= a)) return true;
+    }
     return false;
   };
   for (let i = 0; i < rows; i++) {

@@ -102,13 +102,22 @@ export const redlichKisterFamily: ModelFamily = {
 };
 
 function redlichKisterAt(terms: readonly RedlichKisterTerm[], T: number, withLog: boolean): Isotherm {
-  // A plain array (not a Float64Array): one isotherm per row of a sweep, and a typed array costs
-  // far more to allocate; built by push, so that it holds doubles from the start (an array filled
-  // with 0 first holds small integers and is copied when the first double is written).
-  const L: number[] = [];
+  // A plain array of the exact length, of doubles from the start: one isotherm is made per row of
+  // a sweep, and a typed array, or an array grown by push (which reserves 17 slots), costs far more
+  // to allocate. An array literal for up to four terms, the usual case.
   const lnT = withLog ? Math.log(T) : 0;
-  for (let k = 0; k < terms.length; k++) L.push(terms[k].a + terms[k].b * T + terms[k].c * T * lnT);
+  const n = terms.length;
+  const L = n === 1 ? [termAt(terms[0], T, lnT)]
+    : n === 2 ? [termAt(terms[0], T, lnT), termAt(terms[1], T, lnT)]
+      : n === 3 ? [termAt(terms[0], T, lnT), termAt(terms[1], T, lnT), termAt(terms[2], T, lnT)]
+        : n === 4 ? [termAt(terms[0], T, lnT), termAt(terms[1], T, lnT), termAt(terms[2], T, lnT), termAt(terms[3], T, lnT)]
+          : terms.map((t) => termAt(t, T, lnT));
   return new RedlichKisterIsotherm(L, T);
+}
+
+/** L_k(T) = a + b T + c T ln T. */
+function termAt(t: RedlichKisterTerm, T: number, lnT: number): number {
+  return t.a + t.b * T + t.c * T * lnT;
 }
 
 /**

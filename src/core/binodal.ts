@@ -292,21 +292,32 @@ function tangentCell(iso: Isotherm, j: Branch, k: Branch, r1: number, r2: number
  * U_LIMIT (its own solve says why).
  */
 export function canonicalGap(iso: Isotherm, j: Branch, k: Branch, u1: number, u2: number): Gap | undefined {
-  if (!(Math.abs(u1) < U_LIMIT - 1 && Math.abs(u2) < U_LIMIT - 1)) return undefined;
+  if (!canonicalTangent(iso, j, k, u1, u2)) return undefined;
+  const low = pointAt(tangentRoot[0]);
+  return { low, high: pointAt(tangentRoot[1]), slope: iso.dg(low.x, low.y) };
+}
+
+/** canonicalTangent's answer: u' and u'' of the gap. */
+const tangentRoot = new Float64Array(2);
+
+/** canonicalGap's solve, its answer (u', u'') into tangentRoot: false where canonicalGap is undefined. */
+function canonicalTangent(iso: Isotherm, j: Branch, k: Branch, u1: number, u2: number): boolean {
+  if (!(Math.abs(u1) < U_LIMIT - 1 && Math.abs(u2) < U_LIMIT - 1)) return false;
   let i1 = Math.floor(u1 / CELL), i2 = Math.floor(u2 / CELL);
   for (let attempt = 0; attempt < 2; attempt++) {
-    if (!newtonTangent(iso, j, k, i1, i2)) return undefined;
+    if (!newtonTangent(iso, j, k, i1, i2)) return false;
     const r1 = tangentOut[0], r2 = tangentOut[1], noise1 = tangentOut[2], noise2 = tangentOut[3];
     const k1 = tangentCell(iso, j, k, r1, r2, true), k2 = tangentCell(iso, j, k, r1, r2, false);
     if (k1 === i1 && k2 === i2) {
-      if (!(noise1 <= ROOT_NOISE && noise2 <= ROOT_NOISE && i1 * CELL > j.a && (i1 + 1) * CELL < j.b && i2 * CELL > k.a && (i2 + 1) * CELL < k.b)) return undefined;
-      const low = pointAt(r1);
-      return { low, high: pointAt(r2), slope: iso.dg(low.x, low.y) };
+      if (!(noise1 <= ROOT_NOISE && noise2 <= ROOT_NOISE && i1 * CELL > j.a && (i1 + 1) * CELL < j.b && i2 * CELL > k.a && (i2 + 1) * CELL < k.b)) return false;
+      tangentRoot[0] = r1;
+      tangentRoot[1] = r2;
+      return true;
     }
     i1 = k1;
     i2 = k2;
   }
-  return undefined;
+  return false;
 }
 
 /**
@@ -479,41 +490,122 @@ export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
  * The phase map at a temperature next to `prev`, when the caller knows that no critical point lies
  * between the two temperatures (so no gap opens or closes and no unstable interval appears): the
  * spinodal points are followed by Newton's method on q and the gap by the first solve of
- * canonicalGap from its estimate, and each then ends in the same final solve as phaseMap's (spinodalRootNear, canonicalGap), so the answer
- * is phaseMap's, bit for bit, whatever `prev` was. Covers the common cases of no gap and of one
- * gap over one unstable interval; returns undefined (the caller then solves from scratch) for
- * anything else or when a step does not settle. `before` and `beforeThat`, the maps of the two
- * temperatures before `prev` (as a table gives them), only start the solves closer: each point is
- * extrapolated from the three temperatures, so that one Newton step usually settles it, and none
- * is taken when the extrapolation has settled (see SETTLED).
+ * canonicalGap from its estimate, and each then ends in the same final solve as phaseMap's
+ * (spinodalRootNear, canonicalGap), so the answer is phaseMap's, bit for bit, whatever `prev` was.
+ * Covers the common cases of no gap and of one gap over one unstable interval; returns undefined
+ * (the caller then solves from scratch) for anything else or when a step does not settle.
+ * `before` and `beforeThat`, the maps of the two temperatures before `prev` (as a table gives
+ * them), only start the solves closer: each point is extrapolated from the three temperatures, so
+ * that one Newton step usually settles it, and none is taken when the extrapolation has settled
+ * (see SETTLED). The work is followTrack's, on the maps' points.
  */
 export function continueMap(iso: Isotherm, prev: PhaseMap, before?: PhaseMap, beforeThat?: PhaseMap): PhaseMap | undefined {
   if (prev.spinodal.length === 0 && prev.gaps.length === 0) return { T: iso.T, gaps: [], spinodal: [] };
   if (!followable(prev)) return undefined;
+  const track = mapTrack;
+  track.clear();
   const b = before && followable(before) ? before : undefined;
   const c = b && beforeThat && followable(beforeThat) ? beforeThat : undefined;
-  extrapolate(iso.T, prev, b, c);
+  if (c) track.addMap(c);
+  if (b) track.addMap(b);
+  track.addMap(prev);
+  const followed = followTrack(iso, track);
+  return followed && followedMap(iso, track, followed);
+}
+
+/**
+ * The points of a followed map (one gap over one unstable interval: the spinodal points s1, s2 and
+ * the gap's boundaries, in u) at up to three earlier temperatures, newest first, and followTrack's
+ * answer at the next temperature: the same four points in `next`, with x and y = 1 - x of each (the
+ * bits pointAt gives). continueMap fills one from maps; gapTable keeps one along a table, so that
+ * its rows are followed without building maps.
+ */
+export class Track {
+  readonly T = new Float64Array(3);
+  /** The four points at T[0], then at T[1], then at T[2]. */
+  readonly u = new Float64Array(12);
+  length = 0;
+  readonly next = new Float64Array(4);
+  readonly x = new Float64Array(4);
+  readonly y = new Float64Array(4);
+
+  /** Adds the points at T as the newest (beyond three temperatures, the oldest is dropped). */
+  add(T: number, s1: number, s2: number, low: number, high: number): void {
+    const { u } = this;
+    for (let k = 11; k >= 4; k--) u[k] = u[k - 4];
+    u[0] = s1; u[1] = s2; u[2] = low; u[3] = high;
+    this.T[2] = this.T[1]; this.T[1] = this.T[0]; this.T[0] = T;
+    if (this.length < 3) this.length++;
+  }
+
+  /** Adds a followable map's points. */
+  addMap(map: PhaseMap): void {
+    this.add(map.T, map.spinodal[0].u, map.spinodal[1].u, map.gaps[0].low.u, map.gaps[0].high.u);
+  }
+
+  clear(): void {
+    this.length = 0;
+  }
+
+  /** Point w of `next` as a Point (the bits pointAt(next[w]) gives). */
+  nextPoint(w: number): Point {
+    return { u: this.next[w], x: this.x[w], y: this.y[w] };
+  }
+
+  /** The newest points as a map (a start for phaseMap; the gap's slope is not kept: NaN). */
+  newest(): PhaseMap {
+    const { u } = this;
+    return { T: this.T[0], gaps: [{ low: pointAt(u[2]), high: pointAt(u[3]), slope: NaN }], spinodal: [pointAt(u[0]), pointAt(u[1])] };
+  }
+}
+const mapTrack = new Track();
+
+/** What followTrack found: one gap ('gap'), or one near a critical point ('near-critical': its spinodal points only). */
+export type Followed = 'gap' | 'near-critical';
+
+/**
+ * continueMap's work on a track (at least one earlier temperature): the points at iso.T into
+ * track.next (x and y of each beside them), each point ending in phaseMap's final solve. For
+ * 'near-critical', next holds the spinodal points only (followedMap gives the gap).
+ */
+export function followTrack(iso: Isotherm, track: Track): Followed | undefined {
+  extrapolate(iso.T, track);
   const e1 = settled[0] ? estimates[0] : followRoot(iso, estimates[0]);
   const e2 = settled[1] ? estimates[1] : followRoot(iso, estimates[1]);
   if (e1 === undefined || e2 === undefined) return undefined;
   const s1 = spinodalRootNear(iso, e1), s2 = spinodalRootNear(iso, e2);
   if (s1 === undefined || s2 === undefined || !(s1 < s2)) return undefined;
-  const spinodal = [pointAt(s1), pointAt(s2)];
+  const { next, x, y } = track;
+  next[0] = s1; next[1] = s2;
+  splitRatio(s1, xyCell); x[0] = xyCell[0]; y[0] = xyCell[1];
+  splitRatio(s2, xyCell); x[1] = xyCell[0]; y[1] = xyCell[1];
   // the two convex branches (as convexBranches gives them), in objects kept for this
   const j = lowBranch, k = highBranch;
   j.b = s1; j.guess = s1 - 1;
   k.a = s2; k.guess = s2 + 1;
   // g' at the spinodal points only where the near-critical test needs it (nothing else here reads it)
   j.slopeHigh = NaN; k.slopeLow = NaN;
-  if (!farFromCritical(iso, spinodal[0], spinodal[1])) {
-    j.slopeHigh = iso.dg(spinodal[0].x, spinodal[0].y);
-    k.slopeLow = iso.dg(spinodal[1].x, spinodal[1].y);
-    if (nearCritical(iso, j, k)) return { T: iso.T, gaps: [criticalGap(iso, s1, s2)], spinodal };
+  if (!farFromCritical(iso, s1, x[0], y[0], s2, x[1], y[1])) {
+    j.slopeHigh = iso.dg(x[0], y[0]);
+    k.slopeLow = iso.dg(x[1], y[1]);
+    if (nearCritical(iso, j, k)) return 'near-critical';
   }
   // canonicalGap's first solve starts from the cells of the estimates, settled or not
-  const gap = canonicalGap(iso, j, k, estimates[2], estimates[3]);
-  return gap && { T: iso.T, gaps: [gap], spinodal };
+  if (!canonicalTangent(iso, j, k, estimates[2], estimates[3])) return undefined;
+  next[2] = tangentRoot[0]; next[3] = tangentRoot[1];
+  splitRatio(next[2], xyCell); x[2] = xyCell[0]; y[2] = xyCell[1];
+  splitRatio(next[3], xyCell); x[3] = xyCell[0]; y[3] = xyCell[1];
+  return 'gap';
 }
+
+/** The map followTrack found (as continueMap returns it: the gap as canonicalGap or criticalGap gives it). */
+export function followedMap(iso: Isotherm, track: Track, followed: Followed): PhaseMap {
+  const spinodal = [track.nextPoint(0), track.nextPoint(1)];
+  if (followed === 'near-critical') return { T: iso.T, gaps: [criticalGap(iso, track.next[0], track.next[1])], spinodal };
+  const low = track.nextPoint(2);
+  return { T: iso.T, gaps: [{ low, high: track.nextPoint(3), slope: iso.dg(low.x, low.y) }], spinodal };
+}
+
 /**
  * Whether g' falls across the unstable interval [s1, s2] by so much more than NEAR_CRITICAL_DROP RT
  * that nearCritical is false for certain: the drop from dgRatio (no logarithms) above the threshold
@@ -521,17 +613,17 @@ export function continueMap(iso: Isotherm, prev: PhaseMap, before?: PhaseMap, be
  * way of computing it. When this does not settle it, the slopes are computed as convexBranches
  * computes them and nearCritical decides, as in phaseMap.
  */
-function farFromCritical(iso: Isotherm, p1: Point, p2: Point): boolean {
+function farFromCritical(iso: Isotherm, s1: number, x1: number, y1: number, s2: number, x2: number, y2: number): boolean {
   const RT = iso.RT;
-  const d1 = iso.dgRatio(p1.u, p1.x, p1.y), d2 = iso.dgRatio(p2.u, p2.x, p2.y);
-  const size = RT * (4 + Math.abs(p1.u) + Math.abs(p2.u)) + Math.abs(d1) + Math.abs(d2) + Math.abs(d1 - RT * p1.u) + Math.abs(d2 - RT * p2.u);
+  const d1 = iso.dgRatio(s1, x1, y1), d2 = iso.dgRatio(s2, x2, y2);
+  const size = RT * (4 + Math.abs(s1) + Math.abs(s2)) + Math.abs(d1) + Math.abs(d2) + Math.abs(d1 - RT * s1) + Math.abs(d2 - RT * s2);
   return d1 - d2 > NEAR_CRITICAL_DROP * RT + 2 ** -30 * size;
 }
 const lowBranch: Branch = { a: -Infinity, b: 0, slopeLow: -Infinity, slopeHigh: 0, guess: 0 };
 const highBranch: Branch = { a: 0, b: Infinity, slopeLow: 0, slopeHigh: Infinity, guess: 0 };
 
 /** One gap over one unstable interval: what continueMap follows. */
-function followable(map: PhaseMap): boolean {
+export function followable(map: PhaseMap): boolean {
   return map.spinodal.length === 2 && map.gaps.length === 1;
 }
 
@@ -541,37 +633,26 @@ function followable(map: PhaseMap): boolean {
  */
 const estimates = new Float64Array(4);
 const settled = [false, false, false, false];
-/** The same points in the maps extrapolated from: [prev (4), before (4), beforeThat (4)]. */
-const known = new Float64Array(12);
-
-/** Writes the four points of a followable map into known[at..at + 3]. */
-function readPoints(map: PhaseMap, at: number): void {
-  known[at] = map.spinodal[0].u;
-  known[at + 1] = map.spinodal[1].u;
-  known[at + 2] = map.gaps[0].low.u;
-  known[at + 3] = map.gaps[0].high.u;
-}
 
 /**
- * Each point at T (into `estimates`), extrapolated from the maps at up to three earlier
- * temperatures: Lagrange's polynomial through them (the weights of u0, u1, u2, the points at p.T,
- * b.T, c.T, are the same for every point of a row), settled when its second-order part (quadratic
- * minus linear extrapolation, u0 + (u0 - u1) (T - t0) / (t0 - t1)) is below SETTLED. Only a
- * starting point: anything not finite or far from the last answer gives way to the last answer.
+ * Each point at T (into `estimates`), extrapolated from the track's points at up to three earlier
+ * temperatures: Lagrange's polynomial through them (the weights of u0, u1, u2, the points at T[0],
+ * T[1], T[2], are the same for every point of a row), settled when its second-order part
+ * (quadratic minus linear extrapolation, u0 + (u0 - u1) (T - t0) / (t0 - t1)) is below SETTLED.
+ * Only a starting point: anything not finite or far from the last answer gives way to the last
+ * answer.
  */
-function extrapolate(T: number, p: PhaseMap, b?: PhaseMap, c?: PhaseMap): void {
-  readPoints(p, 0);
-  if (!b) {
+function extrapolate(T: number, track: Track): void {
+  const known = track.u, n = track.length;
+  if (n < 2) {
     for (let w = 0; w < 4; w++) { estimates[w] = known[w]; settled[w] = false; }
     return;
   }
-  readPoints(b, 4);
-  const t0 = p.T, t1 = b.T;
+  const t0 = track.T[0], t1 = track.T[1];
   const wLinear = (T - t0) / (t0 - t1);
   let w0 = 0, w1 = 0, w2 = 0;
-  if (c) {
-    readPoints(c, 8);
-    const t2 = c.T;
+  if (n > 2) {
+    const t2 = track.T[2];
     w0 = ((T - t1) * (T - t2)) / ((t0 - t1) * (t0 - t2));
     w1 = ((T - t0) * (T - t2)) / ((t1 - t0) * (t1 - t2));
     w2 = ((T - t0) * (T - t1)) / ((t2 - t0) * (t2 - t1));
@@ -580,7 +661,7 @@ function extrapolate(T: number, p: PhaseMap, b?: PhaseMap, c?: PhaseMap): void {
     const u0 = known[w], u1 = known[4 + w];
     const linear = u0 + (u0 - u1) * wLinear;
     let u = linear, done = false;
-    if (c) {
+    if (n > 2) {
       u = u0 * w0 + u1 * w1 + known[8 + w] * w2;
       done = Math.abs(u - linear) <= SETTLED * Math.max(1, Math.abs(u));
     }

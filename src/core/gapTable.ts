@@ -1,4 +1,4 @@
-import { continueMap, phaseMap, type Gap, type PhaseMap } from './binodal';
+import { continueMap, followable, followedMap, followTrack, phaseMap, Track, type Gap, type PhaseMap } from './binodal';
 import type { CriticalPoint } from './critical';
 import type { BinaryModel, Point } from './model';
 import { pointAt, logRatio } from './model';
@@ -28,7 +28,9 @@ export function evenTemperatures(T1: number, T2: number, rows: number): number[]
  * closes its dome at the critical point. The spinodal columns
  * give the outermost spinodal points inside the gap. Each temperature starts from the answer of
  * the previous one; between two temperatures with no critical point in between, the spinodal and
- * the gap are followed by Newton's method alone (see continueMap).
+ * the gap are followed by Newton's method alone (followTrack, as continueMap does, on the points
+ * of the last three rows kept as numbers: no map is built for such a row), each ending in
+ * phaseMap's final solve, so every row is phaseMap's answer at its temperature, bit for bit.
  */
 export function gapTable(model: BinaryModel, temperatures: readonly number[], n: number, critical: readonly CriticalPoint[]): GapRow[] {
   const Ts = temperatures.slice();
@@ -50,8 +52,12 @@ export function gapTable(model: BinaryModel, temperatures: readonly number[], n:
     }
   }
   const table: GapRow[] = [];
-  // the last three answers (at grid temperatures) start the next row
-  let hint: PhaseMap | undefined, before: PhaseMap | undefined, beforeThat: PhaseMap | undefined;
+  // The last grid row's map, when it was solved as one, and, while the maps are one gap over one
+  // unstable interval, the track of their points at the last three grid temperatures (newest
+  // first), which the next row follows (followTrack) without building a map.
+  let last: PhaseMap | undefined;
+  let lastT = NaN;
+  const track = new Track();
   const criticalTs = Float64Array.from(critical, (c) => c.T);
   const criticalBetween = (a: number, b: number) => {
     for (let k = 0; k < criticalTs.length; k++) {
@@ -63,14 +69,28 @@ export function gapTable(model: BinaryModel, temperatures: readonly number[], n:
   for (let i = 0; i < rows; i++) {
     const T = Ts[i];
     const iso = model.at(T);
-    // Earlier answers are followed only across no critical point (then no gap opens or closes).
-    const across = hint !== undefined && criticalBetween(hint.T, T);
-    const map = (hint && !across && continueMap(iso, hint, before, beforeThat)) || phaseMap(iso, hint);
     const c = critAt[i];
+    // Earlier answers are followed only across no critical point (then no gap opens or closes).
+    const across = lastT === lastT && criticalBetween(lastT, T);
+    const followed = !c && !across && track.length > 0 ? followTrack(iso, track) : undefined;
+    if (followed === 'gap') {
+      const { x, next } = track;
+      table.push(n === 1 ? row(T, x[2], x[3], x, 2, false) : noGap(T, false));
+      track.add(T, next[0], next[1], next[2], next[3]);
+      last = undefined;
+      lastT = T;
+      continue;
+    }
+    // A map: followed next to a critical point, else solved (from scratch when followTrack
+    // failed: continueMap would fail the same way), the earlier answer only a start.
+    const hint = last ?? (track.length > 0 ? track.newest() : undefined);
+    const map = followed ? followedMap(iso, track, followed)
+      : (hint && !across && !c && track.length === 0 && continueMap(iso, hint)) || phaseMap(iso, hint);
     if (!c) {
-      beforeThat = across ? undefined : before;
-      before = across ? undefined : hint;
-      hint = map;
+      if (across || !followable(map)) track.clear();
+      if (followable(map)) track.addMap(map);
+      last = map;
+      lastT = T;
     }
     let gaps: Gap[] = map.gaps;
     if (c) {
@@ -80,19 +100,38 @@ export function gapTable(model: BinaryModel, temperatures: readonly number[], n:
     }
     const gap = gaps[n - 1];
     if (!gap) {
-      table.push({ T, low: NaN, high: NaN, spinLow: NaN, spinHigh: NaN, critical: !!c });
+      table.push(noGap(T, !!c));
       continue;
     }
-    // the outermost spinodal points inside the gap
-    let innerLow = Infinity, innerHigh = -Infinity;
-    for (const s of map.spinodal) {
-      if (!(s.x > gap.low.x && s.x < gap.high.x)) continue;
-      if (s.x < innerLow) innerLow = s.x;
-      if (s.x > innerHigh) innerHigh = s.x;
+    if (gap.low === gap.high) {
+      table.push({ T, low: gap.low.x, high: gap.low.x, spinLow: gap.low.x, spinHigh: gap.low.x, critical: !!c });
+      continue;
     }
-    const spinLow = gap.low === gap.high ? gap.low.x : innerLow <= innerHigh ? innerLow : NaN;
-    const spinHigh = gap.low === gap.high ? gap.low.x : innerLow <= innerHigh ? innerHigh : NaN;
-    table.push({ T, low: gap.low.x, high: gap.high.x, spinLow, spinHigh, critical: !!c });
+    const count = map.spinodal.length;
+    const xs = count <= spinodalX.length ? spinodalX : new Float64Array(count);
+    for (let k = 0; k < count; k++) xs[k] = map.spinodal[k].x;
+    table.push(row(T, gap.low.x, gap.high.x, xs, count, !!c));
   }
   return table;
+}
+
+/** Scratch for the x of a map's spinodal points (row). */
+const spinodalX = new Float64Array(16);
+
+/** A row with no gap n. */
+function noGap(T: number, critical: boolean): GapRow {
+  return { T, low: NaN, high: NaN, spinLow: NaN, spinHigh: NaN, critical };
+}
+
+/** The row of a gap [low, high] (x), with the outermost spinodal points inside it among spinodalX[0..count). */
+function row(T: number, low: number, high: number, spinodalX: Float64Array, count: number, critical: boolean): GapRow {
+  let innerLow = Infinity, innerHigh = -Infinity;
+  for (let k = 0; k < count; k++) {
+    const s = spinodalX[k];
+    if (!(s > low && s < high)) continue;
+    if (s < innerLow) innerLow = s;
+    if (s > innerHigh) innerHigh = s;
+  }
+  const inside = innerLow <= innerHigh;
+  return { T, low, high, spinLow: inside ? innerLow : NaN, spinHigh: inside ? innerHigh : NaN, critical };
 }

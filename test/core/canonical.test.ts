@@ -39,12 +39,21 @@ describe('the same bits from any start', () => {
       }
       // continueMap follows one gap over one unstable interval; with two gaps the caller solves from scratch
       if (name !== 'Redlich–Kister, two gaps') expect(continued, 'continueMap answered most rows').toBeGreaterThan(Ts.length / 2);
-      const table = gapTable(model, Ts, 1, criticalPoints(model));
-      table.forEach((row, i) => {
-        const gap = cold[i].gaps[0];
-        if (row.critical) return; // a critical row holds the critical point, not a solve
-        expect([row.low, row.high], `gap table row at T = ${row.T}`).toEqual(gap ? [gap.low.x, gap.high.x] : [NaN, NaN]);
-      });
+      // a table follows its rows without maps (followTrack): the four columns are phaseMap's from
+      // scratch, on this grid and on a grid five times denser (three earlier rows then start each)
+      const critical = criticalPoints(model);
+      const rowOf = (T: number) => {
+        const map = phaseMap(model.at(T)), gap = map.gaps[0];
+        if (!gap) return [NaN, NaN, NaN, NaN];
+        const inside = map.spinodal.map((p) => p.x).filter((x) => x > gap.low.x && x < gap.high.x);
+        return [gap.low.x, gap.high.x, inside.length ? Math.min(...inside) : NaN, inside.length ? Math.max(...inside) : NaN];
+      };
+      for (const grid of [Ts, evenTemperatures(T1, T2, 600)]) {
+        for (const row of gapTable(model, grid, 1, critical)) {
+          if (row.critical) continue; // a critical row holds the critical point, not a solve
+          expect([row.low, row.high, row.spinLow, row.spinHigh], `gap table row at T = ${row.T}`).toEqual(rowOf(row.T));
+        }
+      }
     });
   }
 });

@@ -1,4 +1,4 @@
-import { curvatureMap, spinodalRootNear } from './curvature';
+import { curvatureMap, spinodalRootNear, stableIslandBetween } from './curvature';
 import { fail, kelvin, MixgapError, msg } from './errors';
 import type { Isotherm, Point } from './model';
 import { logRatio, muA, pointAt, splitRatio } from './model';
@@ -487,8 +487,10 @@ export function solveSlope(iso: Isotherm, br: Branch, m: number): number {
 }
 
 /**
- * The phase map at a temperature next to `prev`, when the caller knows that no critical point lies
- * between the two temperatures (so no gap opens or closes and no unstable interval appears): the
+ * The phase map at a temperature next to `prev`, when the caller knows that no crossing lies
+ * between the two temperatures (criticalSearch: so no unstable interval appears or vanishes, and
+ * no gap opens or closes; a stable island opening inside the unstable interval, where no gap
+ * closes, is found here: stableIslandBetween): the
  * spinodal points are followed by Newton's method on q and the gap by the first solve of
  * canonicalGap from its estimate, and each then ends in the same final solve as phaseMap's
  * (spinodalRootNear, canonicalGap), so the answer is phaseMap's, bit for bit, whatever `prev` was.
@@ -552,7 +554,7 @@ export class Track {
     return { u: this.next[w], x: this.x[w], y: this.y[w] };
   }
 
-  /** The newest points as a map (a start for phaseMap; the gap's slope is not kept: NaN). */
+  /** The newest points as a map (a start for phaseMap; the gap's slope is not kept: NaN, so phaseMap's sweep starts its slope search from the middle). */
   newest(): PhaseMap {
     const { u } = this;
     return { T: this.T[0], gaps: [{ low: pointAt(u[2]), high: pointAt(u[3]), slope: NaN }], spinodal: [pointAt(u[0]), pointAt(u[1])] };
@@ -575,6 +577,8 @@ export function followTrack(iso: Isotherm, track: Track): Followed | undefined {
   if (e1 === undefined || e2 === undefined) return undefined;
   const s1 = spinodalRootNear(iso, e1), s2 = spinodalRootNear(iso, e2);
   if (s1 === undefined || s2 === undefined || !(s1 < s2)) return undefined;
+  // a stable island opening inside [s1, s2] (where no gap closes: not a critical point) splits it
+  if (stableIslandBetween(iso, s1, s2)) return undefined;
   const { next, x, y } = track;
   next[0] = s1; next[1] = s2;
   splitRatio(s1, xyCell); x[0] = xyCell[0]; y[0] = xyCell[1];
@@ -609,9 +613,11 @@ export function followedMap(iso: Isotherm, track: Track, followed: Followed): Ph
 /**
  * Whether g' falls across the unstable interval [s1, s2] by so much more than NEAR_CRITICAL_DROP RT
  * that nearCritical is false for certain: the drop from dgRatio (no logarithms) above the threshold
- * by 2^-30 of the sizes of the terms of g' at both points, a million times the rounding of either
- * way of computing it. When this does not settle it, the slopes are computed as convexBranches
- * computes them and nearCritical decides, as in phaseMap.
+ * by 2^-30 of RT (4 + |s1| + |s2|) plus the sizes of g' and of its excess part at both points,
+ * far above the rounding of either way of computing it for any model of sensible size (excess
+ * terms that cancel to within 2^-21 of these would need energies near 1e10 J/mol). When this does
+ * not settle it, the slopes are computed as convexBranches computes them and nearCritical decides,
+ * as in phaseMap.
  */
 function farFromCritical(iso: Isotherm, s1: number, x1: number, y1: number, s2: number, x2: number, y2: number): boolean {
   const RT = iso.RT;

@@ -69,13 +69,23 @@ interface Candidate {
  *      like a square root), which excludes metastable points inside a wider stable gap.
  */
 export function criticalPoints(model: BinaryModel, Tmin = T_SEARCH_MIN, Tmax = T_SEARCH_MAX): CriticalPoint[] {
+  return criticalSearch(model, Tmin, Tmax).points;
+}
+
+/**
+ * criticalPoints, and `crossings`: the temperature of every candidate of steps 2-4, confirmed or
+ * not (sorted), i.e. everywhere a minimum of q was found to cross zero, where an unstable interval
+ * appears or vanishes: also inside a wider gap (a metastable critical point), where no gap closes.
+ * A table followed from row to row (gapTable) must not follow across any of them.
+ */
+export function criticalSearch(model: BinaryModel, Tmin = T_SEARCH_MIN, Tmax = T_SEARCH_MAX): { points: CriticalPoint[]; crossings: number[] } {
   const Ts: number[] = [];
   for (let i = 0; i < SAMPLES; i++) Ts.push(Tmin * Math.pow(Tmax / Tmin, i / (SAMPLES - 1)));
   const { minimaAt, intervals } = sampleMinima(model, Ts);
   const found: Candidate[] = [];
   signChangesAndDips(model, Ts, minimaAt, found);
   folds(model, Ts, intervals, found);
-  return confirm(model, found);
+  return { points: confirm(model, found), crossings: found.map((f) => f.T).sort((a, b) => a - b) };
 }
 
 /** Step 1: the local minima of q at each sampled temperature (scaled by q's end values), and the number of unstable intervals (-1 where g'' cannot be followed: parameters far too large there). */

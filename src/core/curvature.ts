@@ -303,6 +303,47 @@ export function spinodalRootNear(iso: Isotherm, estimate: number): number | unde
   return canonicalRoot(iso, estimate, qa > 0 ? -1 : 1) ?? spinodalRoot(iso, u[lo], u[hi], qa, qb);
 }
 
+/** The number of nodes of the sorted u below t (below or at t when `strict` is false). */
+function nodesBelow(u: Float64Array, t: number, strict: boolean): number {
+  let lo = 0, hi = u.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (strict ? u[mid] < t : u[mid] <= t) lo = mid + 1; else hi = mid;
+  }
+  return lo;
+}
+
+/** Scratch for the grid nodes strictly between two spinodal points (stableIslandBetween). */
+const innerX = new Float64Array(256), innerY = new Float64Array(256), innerQ = new Float64Array(256);
+
+/**
+ * Whether curvatureMap, at this temperature, would find more spinodal points between s1 < s2 (the
+ * two ends of one unstable interval): a stable island inside it, which opens where a local maximum
+ * of q rises through zero, with no critical point (no gap closes there). analyse's rules on the
+ * grid nodes strictly between s1 and s2 (q there is computed as curvatureMap computes it): q > 0
+ * at a node (two more sign changes), or a sampled local maximum with q <= 0 whose refinement is
+ * above zero. (Nodes outside [s1, s2] are not sampled: an unstable interval appears there only
+ * where a minimum of q crosses zero, at the temperatures criticalCrossings lists.) True when the
+ * grid is not the one curvatureMap would choose.
+ */
+export function stableIslandBetween(iso: Isotherm, s1: number, s2: number): boolean {
+  const grid = samplingGrid(iso);
+  if (!grid) return true;
+  const { u, x, y } = grid;
+  const n = u.length;
+  // the nodes lo..hi strictly inside (s1, s2)
+  const lo = nodesBelow(u, s1, false), hi = nodesBelow(u, s2, true) - 1;
+  const count = hi - lo + 1;
+  if (count <= 0) return false;
+  for (let k = 0; k < count; k++) { innerX[k] = x[lo + k]; innerY[k] = y[lo + k]; }
+  qEach(iso, innerX, innerY, count, innerQ);
+  for (let k = 0; k < count; k++) if (innerQ[k] > 0) return true;
+  for (let k = 1; k + 1 < count; k++) {
+    if (innerQ[k] >= innerQ[k - 1] && innerQ[k] > innerQ[k + 1] && refineExtremum(iso, u[lo + k - 1], u[lo + k + 1], -1).q > 0) return true;
+  }
+  return false;
+}
+
 /**
  * Refines a local minimum (sign 1) or maximum (sign -1) of q on [u0, u1], widened up to
  * `widenings` times: root of dq/du, or a bounded search.

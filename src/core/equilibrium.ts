@@ -1,5 +1,5 @@
 import { continueMap, phaseMap, type Gap, type PhaseMap } from './binodal';
-import { criticalPoint, criticalPoints, noCriticalPoint, type CriticalPoint } from './critical';
+import { criticalPoint, criticalSearch, noCriticalPoint, type CriticalPoint } from './critical';
 import { BoundedCache } from './boundedCache';
 import { fail, kelvin, msg } from './errors';
 import { WARM_WINDOW } from './limits';
@@ -24,6 +24,8 @@ const table = new Float64Array(SLOTS * SLOT_SIZE);
 interface ModelState {
   id: number;
   critical?: CriticalPoint[];
+  /** criticalSearch's crossings (found with the critical points). */
+  crossings?: number[];
   last?: PhaseMap;
   /** The state of the model this one is a small move of (see movedFrom). */
   parent?: ModelState;
@@ -144,8 +146,22 @@ function warmStart(state: ModelState, T: number): PhaseMap | undefined {
 
 /** Every critical point of the model between 1 K and 20000 K, highest first; computed once. */
 export function criticalPointsOf(model: BinaryModel): CriticalPoint[] {
+  return searched(model).critical!;
+}
+
+/** Every temperature between 1 K and 20000 K where an unstable interval appears or vanishes (criticalSearch's crossings); computed once, with the critical points. */
+export function crossingsOf(model: BinaryModel): number[] {
+  return searched(model).crossings!;
+}
+
+function searched(model: BinaryModel): ModelState {
   const state = modelState(model);
-  return (state.critical ??= criticalPoints(model));
+  if (!state.critical) {
+    const { points, crossings } = criticalSearch(model);
+    state.critical = points;
+    state.crossings = crossings;
+  }
+  return state;
 }
 
 /** The critical point numbered n (1 = highest temperature); with none, why there is none. */

@@ -27,12 +27,17 @@ export function evenTemperatures(T1: number, T2: number, rows: number): number[]
  * row), and its row holds the critical composition in all four columns, so a chart of the table
  * closes its dome at the critical point. The spinodal columns
  * give the outermost spinodal points inside the gap. Each temperature starts from the answer of
- * the previous one; between two temperatures with no critical point in between, the spinodal and
- * the gap are followed by Newton's method alone (followTrack, as continueMap does, on the points
- * of the last three rows kept as numbers: no map is built for such a row), each ending in
- * phaseMap's final solve, so every row is phaseMap's answer at its temperature, bit for bit.
+ * the previous one; between two temperatures with no crossing in between (`crossings`: where an
+ * unstable interval appears or vanishes, criticalSearch's; by default the critical points'), the
+ * spinodal and the gap are followed by Newton's method alone (followTrack, as continueMap does, on
+ * the points of the last three rows kept as numbers: no map is built for such a row), each ending
+ * in phaseMap's final solve, and refused where a stable island opens inside the unstable interval
+ * (stableIslandBetween); so every row is phaseMap's answer at its temperature, bit for bit.
  */
-export function gapTable(model: BinaryModel, temperatures: readonly number[], n: number, critical: readonly CriticalPoint[]): GapRow[] {
+export function gapTable(
+  model: BinaryModel, temperatures: readonly number[], n: number, critical: readonly CriticalPoint[],
+  crossings: readonly number[] = critical.map((c) => c.T),
+): GapRow[] {
   const Ts = temperatures.slice();
   const rows = Ts.length;
   const T1 = Ts[0], T2 = Ts[rows - 1];
@@ -58,7 +63,8 @@ export function gapTable(model: BinaryModel, temperatures: readonly number[], n:
   let last: PhaseMap | undefined;
   let lastT = NaN;
   const track = new Track();
-  const criticalTs = Float64Array.from(critical, (c) => c.T);
+  // rows are not followed across a temperature where an unstable interval appears or vanishes
+  const criticalTs = Float64Array.from([...crossings, ...critical.map((c) => c.T)]);
   const criticalBetween = (a: number, b: number) => {
     for (let k = 0; k < criticalTs.length; k++) {
       const t = criticalTs[k];
@@ -81,8 +87,8 @@ export function gapTable(model: BinaryModel, temperatures: readonly number[], n:
       lastT = T;
       continue;
     }
-    // A map: followed next to a critical point, else solved (from scratch when followTrack
-    // failed: continueMap would fail the same way), the earlier answer only a start.
+    // A map: followed next to a critical point, else solved by phaseMap (not by continueMap when
+    // followTrack failed: it would fail the same way), the earlier answer only a start.
     const hint = last ?? (track.length > 0 ? track.newest() : undefined);
     const map = followed ? followedMap(iso, track, followed)
       : (hint && !across && !c && track.length === 0 && continueMap(iso, hint)) || phaseMap(iso, hint);

@@ -9,7 +9,7 @@
  * are in kelvin and energies in J/mol unless a parameter card says otherwise.
  */
 import { T_SEARCH_MAX, T_SEARCH_MIN } from '../core/constants';
-import { criticalPointOf, criticalPointsOf, equilibriumAt, gapAt, unstableAt } from '../core/equilibrium';
+import { criticalPointOf, criticalPointsOf, crossingsOf, equilibriumAt, gapAt, unstableAt } from '../core/equilibrium';
 import { evenTemperatures, gapTable as coreGapTable } from '../core/gapTable';
 import { gapTemperature } from '../core/gapTemperature';
 import { phaseFractions } from '../core/leverRule';
@@ -248,7 +248,7 @@ export function gapTable(T1: number, T2: number, rows: number, params: any[][], 
     // The grid in the user's unit, converted row by row, so that its temperatures come back as typed.
     const grid = evenTemperatures(number(T1, 'T1'), number(T2, 'T2'), n);
     const kelvins = grid.map((t, i) => (i === 0 ? from : i === n - 1 ? to : temperatureIn(sys, t)));
-    return coreGapTable(model, kelvins, which, criticalPointsOf(model)).map((r, i) => [
+    return coreGapTable(model, kelvins, which, criticalPointsOf(model), crossingsOf(model)).map((r, i) => [
       r.critical ? temperatureOut(sys, r.T) : grid[i], value(r.low), value(r.high), value(r.spinLow), value(r.spinHigh),
     ]);
   });

@@ -58,6 +58,34 @@ describe('the same bits from any start', () => {
   }
 });
 
+/**
+ * A stable island opening inside an unstable interval (near 789.5 K here: a local maximum of q rises
+ * through zero, no gap closes, so no critical point is listed), after which the gap splits in two at
+ * a three-phase temperature (near 887.5 K). A table must not follow its rows across the island as if
+ * nothing changed: every row, for gap 1 and gap 2, both directions, is phaseMap's from scratch.
+ * Invented parameters (found by a randomized comparison of tables with per-temperature solves).
+ */
+describe('a table across a stable island inside the unstable interval', () => {
+  const model = redlichKister([{ a: 19116.377, b: 0, c: 0 }, { a: -704.834, b: 0, c: 0 }, { a: 5933.981, b: 0, c: 0 }]);
+  it('every row is phaseMap from scratch, gaps 1 and 2', () => {
+    const critical = criticalPoints(model);
+    expect(phaseMap(model.at(789)).spinodal.length, 'one unstable interval below the island').toBe(2);
+    expect(phaseMap(model.at(790)).spinodal.length, 'two above it').toBe(4);
+    expect(phaseMap(model.at(895)).gaps.length, 'two gaps after the split').toBe(2);
+    for (const grid of [evenTemperatures(700, 950, 251), evenTemperatures(950, 700, 251)]) {
+      for (const n of [1, 2]) {
+        for (const row of gapTable(model, grid, n, critical)) {
+          if (row.critical) continue;
+          const map = phaseMap(model.at(row.T)), gap = map.gaps[n - 1];
+          const inside = gap ? map.spinodal.map((p) => p.x).filter((x) => x > gap.low.x && x < gap.high.x) : [];
+          const expected = gap ? [gap.low.x, gap.high.x, inside.length ? Math.min(...inside) : NaN, inside.length ? Math.max(...inside) : NaN] : [NaN, NaN, NaN, NaN];
+          expect([row.low, row.high, row.spinLow, row.spinHigh], `gap ${n} at T = ${row.T}`).toEqual(expected);
+        }
+      }
+    }
+  });
+});
+
 describe('the gap\'s final solve from estimates in different cells', () => {
   const model = SYSTEMS[0][1];
   const at = (T: number) => {

@@ -4,7 +4,7 @@
  * together, so the clock's resolution does not matter); memory is the process's resident size.
  */
 import { phaseMap } from '../src/core/binodal';
-import { criticalPoints } from '../src/core/critical';
+import { criticalPoints, criticalSearch } from '../src/core/critical';
 import { forgetSolves } from '../src/core/equilibrium';
 import { evenTemperatures, gapTable } from '../src/core/gapTable';
 import type { BinaryModel } from '../src/core/model';
@@ -138,7 +138,7 @@ function reportSweep(f: SweepFigures, where: string) {
  */
 function sweepAgainstFloor(): SweepFigures {
   const [, model, T1, T2] = models[0];
-  const crit = criticalPoints(model);
+  const { points: crit, crossings } = criticalSearch(model); // as the GAPTABLE cell passes them
   const Ts = evenTemperatures(T1, T2, 1000);
   const start = phaseMap(model.at(T1)).gaps[0];
   const floor = () => {
@@ -161,10 +161,10 @@ function sweepAgainstFloor(): SweepFigures {
     return sum;
   };
   const time = (task: () => unknown) => { const t0 = performance.now(); task(); return ((performance.now() - t0) * 1000) / Ts.length; };
-  for (let w = 0; w < 100; w++) { time(() => gapTable(model, Ts, 1, crit)); time(floor); }
+  for (let w = 0; w < 100; w++) { time(() => gapTable(model, Ts, 1, crit, crossings)); time(floor); }
   const sweeps: number[] = [], bares: number[] = [], ratios: number[] = [];
   for (let r = 0; r < 101; r++) {
-    const s = time(() => gapTable(model, Ts, 1, crit)), b = time(floor);
+    const s = time(() => gapTable(model, Ts, 1, crit, crossings)), b = time(floor);
     sweeps.push(s); bares.push(b); ratios.push(s / b);
   }
   return { sweep: median(sweeps), floor: median(bares), ratio: median(ratios) };

@@ -29,11 +29,11 @@ function scaledCurvatureSlope(iso: Isotherm, x: number, y: number): number {
 /** g'' and g''' from Isotherm.curvatures. */
 const curv = new Float64Array(2);
 
-/** q at the first n points of (x, y), into out: scaledCurvature at each, the same bits, in one model call. */
-function qEach(iso: Isotherm, x: Float64Array, y: Float64Array, n: number, out: Float64Array): void {
-  iso.d2gEach(x, y, n, out);
+/** q at the points from..to - 1 of (x, y), into the same indices of out: scaledCurvature at each, the same bits, in one model call. */
+function qEach(iso: Isotherm, x: Float64Array, y: Float64Array, from: number, to: number, out: Float64Array): void {
+  iso.d2gEach(x, y, from, to, out);
   const RT = iso.RT;
-  for (let i = 0; i < n; i++) out[i] = (x[i] * y[i] * out[i]) / RT;
+  for (let i = from; i < to; i++) out[i] = (x[i] * y[i] * out[i]) / RT;
 }
 /** A batch of two points for qEach (the ends of a grid or of a cell) and q there. */
 const pairX = new Float64Array(2), pairY = new Float64Array(2), pairQ = new Float64Array(2);
@@ -108,7 +108,7 @@ export function curvatureMap(iso: Isotherm, refineAll = true): CurvatureMap {
     const { points, x, y } = gridAt(r);
     const n = points.length;
     const q = n <= qBuffer.length ? qBuffer.subarray(0, n) : new Float64Array(n);
-    qEach(iso, x, y, n, q);
+    qEach(iso, x, y, 0, n, q);
     if (!(q[0] > 0 && q[n - 1] > 0)) {
       if (Number.isNaN(q[0]) || Number.isNaN(q[n - 1])) fail('range', msg`the model overflows at T = ${kelvin(iso.T)}: its parameters are too large for this temperature`);
       continue; // still unstable at the sampled ends: sample wider
@@ -197,7 +197,7 @@ function signedQEnds(i: number): void {
   pairX[0] = xyRoot[0]; pairY[0] = xyRoot[1];
   splitRatio((i + 1) * CELL, xyRoot);
   pairX[1] = xyRoot[0]; pairY[1] = xyRoot[1];
-  qEach(rootIso, pairX, pairY, 2, pairQ);
+  qEach(rootIso, pairX, pairY, 0, 2, pairQ);
   pairQ[0] *= rootSign;
   pairQ[1] *= rootSign;
 }
@@ -256,7 +256,7 @@ function samplingGrid(iso: Isotherm): Grid | undefined {
   for (let r = 0; r < RANGES.length; r++) {
     const grid = gridAt(r), { x, y } = grid, n = x.length;
     pairX[0] = x[0]; pairY[0] = y[0]; pairX[1] = x[n - 1]; pairY[1] = y[n - 1];
-    qEach(iso, pairX, pairY, 2, pairQ);
+    qEach(iso, pairX, pairY, 0, 2, pairQ);
     const q0 = pairQ[0], qn = pairQ[1];
     if (q0 > 0 && qn > 0) return (gridChosen = grid);
     if (Number.isNaN(q0) || Number.isNaN(qn)) break;
@@ -297,7 +297,7 @@ export function spinodalRootNear(iso: Isotherm, estimate: number): number | unde
   lastCells[1] = lastCells[0];
   lastCells[0] = lo;
   pairX[0] = x[lo]; pairY[0] = y[lo]; pairX[1] = x[hi]; pairY[1] = y[hi];
-  qEach(iso, pairX, pairY, 2, pairQ);
+  qEach(iso, pairX, pairY, 0, 2, pairQ);
   const qa = pairQ[0], qb = pairQ[1];
   if (qa > 0 === qb > 0) return undefined;
   return canonicalRoot(iso, estimate, qa > 0 ? -1 : 1) ?? spinodalRoot(iso, u[lo], u[hi], qa, qb);
@@ -313,8 +313,8 @@ function nodesBelow(u: Float64Array, t: number, strict: boolean): number {
   return lo;
 }
 
-/** Scratch for the grid nodes strictly between two spinodal points (stableIslandBetween). */
-const innerX = new Float64Array(256), innerY = new Float64Array(256), innerQ = new Float64Array(256);
+/** q at the grid nodes strictly between two spinodal points (stableIslandBetween), at the nodes' indices. */
+const innerQ = new Float64Array(256);
 
 /**
  * Whether curvatureMap, at this temperature, would find more spinodal points between s1 < s2 (the
@@ -332,14 +332,17 @@ export function stableIslandBetween(iso: Isotherm, s1: number, s2: number): bool
   const { u, x, y } = grid;
   const n = u.length;
   // the nodes lo..hi strictly inside (s1, s2)
-  const lo = nodesBelow(u, s1, false), hi = nodesBelow(u, s2, true) - 1;
-  const count = hi - lo + 1;
-  if (count <= 0) return false;
-  for (let k = 0; k < count; k++) { innerX[k] = x[lo + k]; innerY[k] = y[lo + k]; }
-  qEach(iso, innerX, innerY, count, innerQ);
-  for (let k = 0; k < count; k++) if (innerQ[k] > 0) return true;
-  for (let k = 1; k + 1 < count; k++) {
-    if (innerQ[k] >= innerQ[k - 1] && innerQ[k] > innerQ[k + 1] && refineExtremum(iso, u[lo + k - 1], u[lo + k + 1], -1).q > 0) return true;
+  // the first node above s1 and the last below s2: usually the inner ends of the grid cells of the
+  // last two spinodalRootNear calls (their estimates' cells, which hold s1 and s2)
+  let lo = lastCells[1] + 1, hi = lastCells[0];
+  if (!(lo > 0 && lo < n && u[lo - 1] <= s1 && s1 < u[lo])) lo = nodesBelow(u, s1, false);
+  if (!(hi >= 0 && hi + 1 < n && u[hi] < s2 && s2 <= u[hi + 1])) hi = nodesBelow(u, s2, true) - 1;
+  if (hi < lo) return false;
+  const q = n <= innerQ.length ? innerQ : new Float64Array(n);
+  qEach(iso, x, y, lo, hi + 1, q);
+  for (let k = lo; k <= hi; k++) {
+    if (q[k] > 0) return true;
+    if (k > lo && k < hi && q[k] >= q[k - 1] && q[k] > q[k + 1] && refineExtremum(iso, u[k - 1], u[k + 1], -1).q > 0) return true;
   }
   return false;
 }

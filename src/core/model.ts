@@ -43,11 +43,12 @@ export interface Isotherm {
    */
   curvatures(x: number, y: number, out: Float64Array): void;
   /**
-   * g'' at the first n compositions of (x, y), into out: the same bits as d2g at each. One call for
-   * a batch of points (a sampling grid, the ends of a cell), so that a solver working with several
-   * models makes one dispatch for the batch, not one per point.
+   * g'' at the compositions from index `from` up to (not including) `to` of (x, y), into the same
+   * indices of out: the same bits as d2g at each. One call for a batch of points (a sampling grid
+   * or part of it, the ends of a cell), so that a solver working with several models makes one
+   * dispatch for the batch, not one per point.
    */
-  d2gEach(x: Float64Array, y: Float64Array, n: number, out: Float64Array): void;
+  d2gEach(x: Float64Array, y: Float64Array, from: number, to: number, out: Float64Array): void;
   /**
    * g' at the composition of log-ratio u = ln(x / y) (x, y from it), with RT ln(x / y) taken as
    * RT u where the model has that term: the same quantity as dg to rounding, without logarithms.

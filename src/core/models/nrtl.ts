@@ -91,8 +91,8 @@ class NrtlIsotherm implements Isotherm {
     out[1] = this.d3g(x, y);
   }
 
-  d2gEach(x: Float64Array, y: Float64Array, n: number, out: Float64Array): void {
-    for (let i = 0; i < n; i++) out[i] = this.d2g(x[i], y[i]);
+  d2gEach(x: Float64Array, y: Float64Array, from: number, to: number, out: Float64Array): void {
+    for (let i = from; i < to; i++) out[i] = this.d2g(x[i], y[i]);
   }
 
   derivatives(x: number, y: number, out: Float64Array): void {

@@ -56,7 +56,7 @@ describe('derivatives, curvatures and d2gEach give the bits of g, dg, d2g and d3
           checked++;
         }
         // the batch, over the same points
-        iso.d2gEach(xs, ys, 500, batch);
+        iso.d2gEach(xs, ys, 0, 500, batch);
         for (let i = 0; i < 500; i++) {
           expect(Object.is(batch[i], iso.d2g(xs[i], ys[i])), `d2gEach: g'' at x = ${xs[i]}, T = ${T}`).toBe(true);
         }

@@ -31,9 +31,7 @@ const curv = new Float64Array(2);
 
 /** q at the points from..to - 1 of (x, y), into the same indices of out: scaledCurvature at each, the same bits, in one model call. */
 function qEach(iso: Isotherm, x: Float64Array, y: Float64Array, from: number, to: number, out: Float64Array): void {
-  iso.d2gEach(x, y, from, to, out);
-  const RT = iso.RT;
-  for (let i = from; i < to; i++) out[i] = (x[i] * y[i] * out[i]) / RT;
+  iso.curvatureEach(x, y, from, to, out);
 }
 /** A batch of two points for qEach (the ends of a grid or of a cell) and q there. */
 const pairX = new Float64Array(2), pairY = new Float64Array(2), pairQ = new Float64Array(2);

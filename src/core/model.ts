@@ -43,12 +43,12 @@ export interface Isotherm {
    */
   curvatures(x: number, y: number, out: Float64Array): void;
   /**
-   * g'' at the compositions from index `from` up to (not including) `to` of (x, y), into the same
-   * indices of out: the same bits as d2g at each. One call for a batch of points (a sampling grid
-   * or part of it, the ends of a cell), so that a solver working with several models makes one
-   * dispatch for the batch, not one per point.
+   * The scaled curvature q = x y g''/RT, computed as (x y d2g(x, y)) / RT with the same bits, at
+   * the compositions from index `from` up to (not including) `to` of (x, y), into the same indices
+   * of out. One call and one pass for a batch of points (a sampling grid or part of it, the ends of
+   * a cell), so that a solver working with several models makes one dispatch for the batch.
    */
-  d2gEach(x: Float64Array, y: Float64Array, from: number, to: number, out: Float64Array): void;
+  curvatureEach(x: Float64Array, y: Float64Array, from: number, to: number, out: Float64Array): void;
   /**
    * g' at the composition of log-ratio u = ln(x / y) (x, y from it), with RT ln(x / y) taken as
    * RT u where the model has that term: the same quantity as dg to rounding, without logarithms.

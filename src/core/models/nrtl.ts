@@ -91,8 +91,9 @@ class NrtlIsotherm implements Isotherm {
     out[1] = this.d3g(x, y);
   }
 
-  d2gEach(x: Float64Array, y: Float64Array, from: number, to: number, out: Float64Array): void {
-    for (let i = from; i < to; i++) out[i] = this.d2g(x[i], y[i]);
+  curvatureEach(x: Float64Array, y: Float64Array, from: number, to: number, out: Float64Array): void {
+    const RT = this.RT;
+    for (let i = from; i < to; i++) out[i] = (x[i] * y[i] * this.d2g(x[i], y[i])) / RT;
   }
 
   derivatives(x: number, y: number, out: Float64Array): void {

@@ -218,8 +218,9 @@ class RedlichKisterIsotherm implements Isotherm {
     out[1] = this.RT * (1 / (y * y) - 1 / (x * x)) + 12 * P1 + 24 * d * H2 - 48 * x * y * H3;
   }
 
-  d2gEach(x: Float64Array, y: Float64Array, from: number, to: number, out: Float64Array): void {
-    for (let i = from; i < to; i++) out[i] = this.d2g(x[i], y[i]);
+  curvatureEach(x: Float64Array, y: Float64Array, from: number, to: number, out: Float64Array): void {
+    const RT = this.RT;
+    for (let i = from; i < to; i++) out[i] = (x[i] * y[i] * this.d2g(x[i], y[i])) / RT;
   }
 }
 

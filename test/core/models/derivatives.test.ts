@@ -1,9 +1,9 @@
 /**
  * The fused evaluations `Isotherm.derivatives(x, y, out)` (g, g', g'' at once, used in the solvers'
- * inner loops), `curvatures` (g'', g''') and the batch `d2gEach` must give exactly the bits of `g`,
- * `dg`, `d2g` and `d3g`: the solvers' canonical final solves, and so every result, depend on it
- * (the bits are our own contract, no outside source; the values themselves are checked against
- * mathjs symbolic derivatives in the other model tests).
+ * inner loops), `curvatures` (g'', g''') and the batch `curvatureEach` (x y g''/RT) must give
+ * exactly the bits of `g`, `dg`, `d2g`, `d3g` and x y d2g / RT: the solvers' canonical final
+ * solves, and so every result, depend on it (the bits are our own contract, no outside source;
+ * the values themselves are checked against mathjs symbolic derivatives in the other model tests).
  * Seeded random compositions over the whole range, both dilute ends included.
  */
 import { describe, expect, it } from 'vitest';
@@ -32,7 +32,7 @@ const models: Array<[string, BinaryModel]> = [
   ['NRTL', nrtl({ a12: -1.2, b12: 1150, a21: 0.8, b21: 520, alpha: 0.25 })],
 ];
 
-describe('derivatives, curvatures and d2gEach give the bits of g, dg, d2g and d3g (seed 4242)', () => {
+describe('derivatives, curvatures and curvatureEach give the bits of g, dg, d2g and d3g (seed 4242)', () => {
   for (const [name, model] of models) {
     it(name, () => {
       const next = uniform(4242);
@@ -56,9 +56,9 @@ describe('derivatives, curvatures and d2gEach give the bits of g, dg, d2g and d3
           checked++;
         }
         // the batch, over the same points
-        iso.d2gEach(xs, ys, 0, 500, batch);
+        iso.curvatureEach(xs, ys, 0, 500, batch);
         for (let i = 0; i < 500; i++) {
-          expect(Object.is(batch[i], iso.d2g(xs[i], ys[i])), `d2gEach: g'' at x = ${xs[i]}, T = ${T}`).toBe(true);
+          expect(Object.is(batch[i], (xs[i] * ys[i] * iso.d2g(xs[i], ys[i])) / iso.RT), `curvatureEach: x y g''/RT at x = ${xs[i]}, T = ${T}`).toBe(true);
         }
       }
       expect(checked).toBe(2000);

@@ -321,8 +321,8 @@ const innerQ = new Float64Array(256);
  * grid nodes strictly between s1 and s2 (q there is computed as curvatureMap computes it): q > 0
  * at a node (two more sign changes), or a sampled local maximum with q <= 0 whose refinement is
  * above zero. (Nodes outside [s1, s2] are not sampled: an unstable interval appears there only
- * where a minimum of q crosses zero, at the temperatures criticalCrossings lists.) True when the
- * grid is not the one curvatureMap would choose.
+ * where a minimum of q crosses zero, at the temperatures criticalSearch lists as crossings, which
+ * a table does not follow across.) True when the grid is not the one curvatureMap would choose.
  */
 export function stableIslandBetween(iso: Isotherm, s1: number, s2: number): boolean {
   const grid = samplingGrid(iso);

@@ -64,10 +64,10 @@ export function gapTable(
   let lastT = NaN;
   const track = new Track();
   // rows are not followed across a temperature where an unstable interval appears or vanishes
-  const criticalTs = Float64Array.from([...crossings, ...critical.map((c) => c.T)]);
-  const criticalBetween = (a: number, b: number) => {
-    for (let k = 0; k < criticalTs.length; k++) {
-      const t = criticalTs[k];
+  const crossingTs = Float64Array.from([...crossings, ...critical.map((c) => c.T)]);
+  const crossingBetween = (a: number, b: number) => {
+    for (let k = 0; k < crossingTs.length; k++) {
+      const t = crossingTs[k];
       if ((t >= a && t <= b) || (t >= b && t <= a)) return true;
     }
     return false;
@@ -76,8 +76,9 @@ export function gapTable(
     const T = Ts[i];
     const iso = model.at(T);
     const c = critAt[i];
-    // Earlier answers are followed only across no critical point (then no gap opens or closes).
-    const across = lastT === lastT && criticalBetween(lastT, T);
+    // Earlier answers are followed only across no crossing (then no unstable interval appears or
+    // vanishes, and no gap opens or closes).
+    const across = lastT === lastT && crossingBetween(lastT, T);
     const followed = !c && !across && track.length > 0 ? followTrack(iso, track) : undefined;
     if (followed === 'gap') {
       const { x, next } = track;

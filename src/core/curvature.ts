@@ -29,11 +29,7 @@ function scaledCurvatureSlope(iso: Isotherm, x: number, y: number): number {
 /** g'' and g''' from Isotherm.curvatures. */
 const curv = new Float64Array(2);
 
-/** q at the points from..to - 1 of (x, y), into the same indices of out: scaledCurvature at each, the same bits, in one model call. */
-function qEach(iso: Isotherm, x: Float64Array, y: Float64Array, from: number, to: number, out: Float64Array): void {
-  iso.curvatureEach(x, y, from, to, out);
-}
-/** A batch of two points for qEach (the ends of a grid or of a cell) and q there. */
+/** A batch of two points for Isotherm.curvatureEach (the ends of a grid or of a cell) and q there (scaledCurvature's bits). */
 const pairX = new Float64Array(2), pairY = new Float64Array(2), pairQ = new Float64Array(2);
 
 /** A local minimum of q, refined. */
@@ -106,7 +102,7 @@ export function curvatureMap(iso: Isotherm, refineAll = true): CurvatureMap {
     const { points, x, y } = gridAt(r);
     const n = points.length;
     const q = n <= qBuffer.length ? qBuffer.subarray(0, n) : new Float64Array(n);
-    qEach(iso, x, y, 0, n, q);
+    iso.curvatureEach(x, y, 0, n, q);
     if (!(q[0] > 0 && q[n - 1] > 0)) {
       if (Number.isNaN(q[0]) || Number.isNaN(q[n - 1])) fail('range', msg`the model overflows at T = ${kelvin(iso.T)}: its parameters are too large for this temperature`);
       continue; // still unstable at the sampled ends: sample wider
@@ -195,7 +191,7 @@ function signedQEnds(i: number): void {
   pairX[0] = xyRoot[0]; pairY[0] = xyRoot[1];
   splitRatio((i + 1) * CELL, xyRoot);
   pairX[1] = xyRoot[0]; pairY[1] = xyRoot[1];
-  qEach(rootIso, pairX, pairY, 0, 2, pairQ);
+  rootIso.curvatureEach(pairX, pairY, 0, 2, pairQ);
   pairQ[0] *= rootSign;
   pairQ[1] *= rootSign;
 }
@@ -254,7 +250,7 @@ function samplingGrid(iso: Isotherm): Grid | undefined {
   for (let r = 0; r < RANGES.length; r++) {
     const grid = gridAt(r), { x, y } = grid, n = x.length;
     pairX[0] = x[0]; pairY[0] = y[0]; pairX[1] = x[n - 1]; pairY[1] = y[n - 1];
-    qEach(iso, pairX, pairY, 0, 2, pairQ);
+    iso.curvatureEach(pairX, pairY, 0, 2, pairQ);
     const q0 = pairQ[0], qn = pairQ[1];
     if (q0 > 0 && qn > 0) return (gridChosen = grid);
     if (Number.isNaN(q0) || Number.isNaN(qn)) break;
@@ -295,7 +291,7 @@ export function spinodalRootNear(iso: Isotherm, estimate: number): number | unde
   lastCells[1] = lastCells[0];
   lastCells[0] = lo;
   pairX[0] = x[lo]; pairY[0] = y[lo]; pairX[1] = x[hi]; pairY[1] = y[hi];
-  qEach(iso, pairX, pairY, 0, 2, pairQ);
+  iso.curvatureEach(pairX, pairY, 0, 2, pairQ);
   const qa = pairQ[0], qb = pairQ[1];
   if (qa > 0 === qb > 0) return undefined;
   return canonicalRoot(iso, estimate, qa > 0 ? -1 : 1) ?? spinodalRoot(iso, u[lo], u[hi], qa, qb);
@@ -337,7 +333,7 @@ export function stableIslandBetween(iso: Isotherm, s1: number, s2: number): bool
   if (!(hi >= 0 && hi + 1 < n && u[hi] < s2 && s2 <= u[hi + 1])) hi = nodesBelow(u, s2, true) - 1;
   if (hi < lo) return false;
   const q = n <= innerQ.length ? innerQ : new Float64Array(n);
-  qEach(iso, x, y, lo, hi + 1, q);
+  iso.curvatureEach(x, y, lo, hi + 1, q);
   for (let k = lo; k <= hi; k++) {
     if (q[k] > 0) return true;
     if (k > lo && k < hi && q[k] >= q[k - 1] && q[k] > q[k + 1] && refineExtremum(iso, u[k - 1], u[k + 1], -1).q > 0) return true;

@@ -28,11 +28,12 @@ export function evenTemperatures(T1: number, T2: number, rows: number): number[]
  * closes its dome at the critical point. The spinodal columns
  * give the outermost spinodal points inside the gap. Each temperature starts from the answer of
  * the previous one; between two temperatures with no crossing in between (`crossings`: where an
- * unstable interval appears or vanishes, criticalSearch's; by default the critical points'), the
- * spinodal and the gap are followed by Newton's method alone (followTrack, as continueMap does, on
- * the points of the last three rows kept as numbers: no map is built for such a row), each ending
- * in phaseMap's final solve, and refused where a stable island opens inside the unstable interval
- * (stableIslandBetween); so every row is phaseMap's answer at its temperature, bit for bit.
+ * unstable interval appears or vanishes, criticalSearch's, which include the critical points'
+ * temperatures; by default those alone), the spinodal and the gap are followed by Newton's method
+ * alone (followTrack, as continueMap does, on the points of the last three rows kept as numbers:
+ * no map is built for such a row), each ending in phaseMap's final solve, and refused where a
+ * stable island opens inside the unstable interval (stableIslandBetween); so every row is
+ * phaseMap's answer at its temperature, bit for bit.
  */
 export function gapTable(
   model: BinaryModel, temperatures: readonly number[], n: number, critical: readonly CriticalPoint[],
@@ -64,7 +65,7 @@ export function gapTable(
   let lastT = NaN;
   const track = new Track();
   // rows are not followed across a temperature where an unstable interval appears or vanishes
-  const crossingTs = Float64Array.from([...crossings, ...critical.map((c) => c.T)]);
+  const crossingTs = Float64Array.from(crossings);
   const crossingBetween = (a: number, b: number) => {
     for (let k = 0; k < crossingTs.length; k++) {
       const t = crossingTs[k];

@@ -47,6 +47,8 @@ export interface Isotherm {
    * the compositions from index `from` up to (not including) `to` of (x, y), into the same indices
    * of out. One call and one pass for a batch of points (a sampling grid or part of it, the ends of
    * a cell), so that a solver working with several models makes one dispatch for the batch.
+   * Each model class writes its own (as `curvatures`): one method shared by all, in a base class,
+   * would call d2g through every model's class again, and the compiler would not inline it.
    */
   curvatureEach(x: Float64Array, y: Float64Array, from: number, to: number, out: Float64Array): void;
   /**

@@ -10,7 +10,7 @@ import { describe, expect, it } from 'vitest';
 import { canonicalGap, continueMap, convexBranches, phaseMap, type Gap } from '../../src/core/binodal';
 import { CELL, CELL_GUARD } from '../../src/core/limits';
 import { clearCell } from '../../src/core/roots';
-import { criticalPoints } from '../../src/core/critical';
+import { criticalPoints, criticalSearch } from '../../src/core/critical';
 import { evenTemperatures, gapTable } from '../../src/core/gapTable';
 import type { BinaryModel } from '../../src/core/model';
 import { floryHuggins } from '../../src/core/models/floryHuggins';
@@ -68,13 +68,15 @@ describe('the same bits from any start', () => {
 describe('a table across a stable island inside the unstable interval', () => {
   const model = redlichKister([{ a: 19116.377, b: 0, c: 0 }, { a: -704.834, b: 0, c: 0 }, { a: 5933.981, b: 0, c: 0 }]);
   it('every row is phaseMap from scratch, gaps 1 and 2', () => {
-    const critical = criticalPoints(model);
+    const { points: critical, crossings } = criticalSearch(model);
+    // the crossings a table is not followed across include every critical temperature
+    for (const c of critical) expect(crossings, `Tc = ${c.T}`).toContain(c.T);
     expect(phaseMap(model.at(789)).spinodal.length, 'one unstable interval below the island').toBe(2);
     expect(phaseMap(model.at(790)).spinodal.length, 'two above it').toBe(4);
     expect(phaseMap(model.at(895)).gaps.length, 'two gaps after the split').toBe(2);
     for (const grid of [evenTemperatures(700, 950, 251), evenTemperatures(950, 700, 251)]) {
       for (const n of [1, 2]) {
-        for (const row of gapTable(model, grid, n, critical)) {
+        for (const row of gapTable(model, grid, n, critical, crossings)) {
           if (row.critical) continue;
           const map = phaseMap(model.at(row.T)), gap = map.gaps[n - 1];
           const inside = gap ? map.spinodal.map((p) => p.x).filter((x) => x > gap.low.x && x < gap.high.x) : [];

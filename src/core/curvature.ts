@@ -332,6 +332,8 @@ export function stableIslandBetween(iso: Isotherm, s1: number, s2: number): bool
   if (!(lo > 0 && lo < n && u[lo - 1] <= s1 && s1 < u[lo])) lo = nodesBelow(u, s1, false);
   if (!(hi >= 0 && hi + 1 < n && u[hi] < s2 && s2 <= u[hi + 1])) hi = nodesBelow(u, s2, true) - 1;
   if (hi < lo) return false;
+  // q below zero over all of [u[lo], u[hi]] by the model's bound: no node or refined maximum is above it
+  if (iso.curvatureCeiling(x[lo], y[lo], x[hi], y[hi]) < 0) return false;
   const q = n <= innerQ.length ? innerQ : new Float64Array(n);
   iso.curvatureEach(x, y, lo, hi + 1, q);
   for (let k = lo; k <= hi; k++) {

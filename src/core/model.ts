@@ -52,6 +52,13 @@ export interface Isotherm {
    */
   curvatureEach(x: Float64Array, y: Float64Array, from: number, to: number, out: Float64Array): void;
   /**
+   * An upper bound of q = x y g''/RT over the compositions between (xa, ya) and (xb, yb), above q
+   * as curvatureEach computes it at any point there, rounding included (so a negative bound means
+   * that every such q is negative); Infinity where the model has no cheap bound. For
+   * stableIslandBetween, which samples q only where this does not settle it.
+   */
+  curvatureCeiling(xa: number, ya: number, xb: number, yb: number): number;
+  /**
    * g' at the composition of log-ratio u = ln(x / y) (x, y from it), with RT ln(x / y) taken as
    * RT u where the model has that term: the same quantity as dg to rounding, without logarithms.
    * For bounds only (continueMap's near-critical test); results use dg.

@@ -90,6 +90,19 @@ class FloryHugginsIsotherm implements Isotherm {
     const RT = this.RT;
     for (let i = from; i < to; i++) out[i] = (x[i] * y[i] * this.d2g(x[i], y[i])) / RT;
   }
+
+  /**
+   * q = x y g''/RT = y/N_B + x/N_A - 2 chi x y is a quadratic in x, convex for chi >= 0: at most
+   * its larger end value on any stretch. The allowance: the rounding of curvatureEach's q (and of
+   * this) is a few 2^-53 of 1/N_A + 1/N_B + 2 |chi|; 2^-40 of it leaves a wide factor. For chi < 0
+   * q is positive everywhere: no bound needed (Infinity).
+   */
+  curvatureCeiling(xa: number, ya: number, xb: number, yb: number): number {
+    const { NA, NB, chi } = this;
+    if (!(chi >= 0)) return Infinity;
+    const qa = ya / NB + xa / NA - 2 * chi * xa * ya, qb = yb / NB + xb / NA - 2 * chi * xb * yb;
+    return Math.max(qa, qb) + 2 ** -40 * (1 + 1 / NA + 1 / NB + 2 * chi);
+  }
 }
 
 /** Cards `model | flory-huggins` (or fh): chain lengths NA, NB and chi = chi.A + chi.B / T. */

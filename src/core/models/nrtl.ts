@@ -96,6 +96,11 @@ class NrtlIsotherm implements Isotherm {
     for (let i = from; i < to; i++) out[i] = (x[i] * y[i] * this.d2g(x[i], y[i])) / RT;
   }
 
+  /** No cheap bound of q for NRTL: Infinity (the callers sample). */
+  curvatureCeiling(): number {
+    return Infinity;
+  }
+
   derivatives(x: number, y: number, out: Float64Array): void {
     const logX = Math.log(x), logY = Math.log(y);
     // the expressions of g, dg and d2g, term for term

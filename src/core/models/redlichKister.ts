@@ -222,6 +222,81 @@ class RedlichKisterIsotherm implements Isotherm {
     const RT = this.RT;
     for (let i = from; i < to; i++) out[i] = (x[i] * y[i] * this.d2g(x[i], y[i])) / RT;
   }
+
+  /**
+   * With x y = (1 - d^2)/4, q = x y g''/RT is a polynomial in d of degree m = n + 1 (n terms):
+   *   q = 1 + (1 - d^2) E(d) / (4 RT),  E(d) = -2P - 4 d P' + (1 - d^2) P'' = sum_j (j+1)(j+2)(L_{j+2} - L_j) d^j.
+   * Over the stretch d = d0 + h t, t in [0, 1], between the two compositions, q is at most its
+   * largest Bernstein coefficient (Farin, Curves and Surfaces for CAGD, 5th ed. 2002, ch. 5: the
+   * convex-hull property); where that does not settle it, the largest of the two halves' (one de
+   * Casteljau split). The allowance for rounding: every number here and in curvatureEach is at most
+   * 8^m s (s = 1 + the sum of |coefficients| of q in d; with |d0| <= 1, |h| <= 2 the shift grows
+   * them by at most 4^m, the change of basis by m + 1 <= 2^m, the split not at all), each operation rounds by at most
+   * 2^-52 of that, and 2^-36 leaves a factor 2^16 for the number of operations (at most a few m^2)
+   * and for x + y differing from 1 by rounding. Infinity beyond CEILING_TERMS terms.
+   */
+  curvatureCeiling(xa: number, ya: number, xb: number, yb: number): number {
+    const L = this.L, n = L.length, m = n + 1;
+    if (m >= CEILING_TERMS) return Infinity;
+    const c = ceilingCoefficients, b = ceilingBernstein;
+    // the coefficients of F = q - 1 in d: (E_j - E_{j-2}) / (4 RT)
+    const scale = 1 / (4 * this.RT);
+    let size = 1;
+    for (let j = 0; j <= m; j++) {
+      const e = j < n ? (j + 1) * (j + 2) * ((j + 2 < n ? L[j + 2] : 0) - L[j]) : 0;
+      const e2 = j >= 2 && j - 2 < n ? (j - 1) * j * ((j < n ? L[j] : 0) - L[j - 2]) : 0;
+      c[j] = (e - e2) * scale;
+      size += Math.abs(c[j]);
+    }
+    // shift to t: F(d0 + h t)
+    const d0 = yb - xb, h = ya - xa - d0;
+    for (let i = 0; i < m; i++) for (let j = m - 1; j >= i; j--) c[j] += d0 * c[j + 1];
+    for (let j = 1, hj = h; j <= m; j++, hj *= h) c[j] *= hj;
+    // Bernstein coefficients: b_i = sum_{j <= i} C(i, j) / C(m, j) c_j
+    const weights = bernsteinWeights(m);
+    let top = -Infinity;
+    for (let i = 0, w = 0; i <= m; i++) {
+      let sum = 0;
+      for (let j = 0; j <= i; j++, w++) sum += weights[w] * c[j];
+      b[i] = sum;
+      if (sum > top) top = sum;
+    }
+    const allowance = weights[weights.length - 1] * size;
+    if (!(1 + top + allowance < 0)) {
+      // de Casteljau at t = 1/2: the left half's coefficients are the first of each level, the right half's the last
+      let left = b[0], right = b[m];
+      for (let level = 1; level <= m; level++) {
+        for (let i = 0; i + level <= m; i++) b[i] = 0.5 * (b[i] + b[i + 1]);
+        if (b[0] > left) left = b[0];
+        if (b[m - level] > right) right = b[m - level];
+      }
+      top = Math.max(left, right);
+    }
+    return 1 + top + allowance;
+  }
+}
+
+/** Beyond this many polynomial coefficients curvatureCeiling gives no bound (its allowance would be too wide to settle anything). */
+const CEILING_TERMS = 16;
+/** curvatureCeiling's scratch: the coefficients of q - 1, then its Bernstein coefficients. */
+const ceilingCoefficients = new Float64Array(CEILING_TERMS + 1), ceilingBernstein = new Float64Array(CEILING_TERMS + 1);
+/** bernsteinWeights of each degree, made when first asked for. */
+const weightsOfDegree: Array<Float64Array | undefined> = [];
+
+/**
+ * The weights C(i, j) / C(m, j) of the change from the power basis to the Bernstein basis of degree
+ * m, for i = 0..m and j = 0..i in that order, and last curvatureCeiling's allowance factor 2^-36 8^m.
+ */
+function bernsteinWeights(m: number): Float64Array {
+  let w = weightsOfDegree[m];
+  if (w) return w;
+  const binomial = (a: number, k: number) => { let v = 1; for (let t = 0; t < k; t++) v = (v * (a - t)) / (t + 1); return v; };
+  w = new Float64Array(((m + 1) * (m + 2)) / 2 + 1);
+  let k = 0;
+  for (let i = 0; i <= m; i++) for (let j = 0; j <= i; j++) w[k++] = binomial(i, j) / binomial(m, j);
+  w[k] = 2 ** -36 * 8 ** m;
+  weightsOfDegree[m] = w;
+  return w;
 }
 
 /** x ln x, with the limit 0 at x = 0. */

@@ -92,3 +92,68 @@ describe('dgRatio(u, x, y) agrees with dg (seed 4243)', () => {
     });
   }
 });
+
+/**
+ * `curvatureCeiling(xa, ya, xb, yb)` bounds q = x y g''/RT, as curvatureEach computes it, from above
+ * over the whole stretch between the two compositions (stableIslandBetween trusts a negative bound
+ * instead of sampling). Checked against curvatureEach at 400 points of each stretch and at its
+ * ends, for seeded random Redlich–Kister systems of 1 to 6 terms (a, b, c parts) and Flory–Huggins
+ * systems, over stretches anywhere in the solved range. It must also be close to the true maximum
+ * where it matters, or it would settle nothing: for a regular solution, q = 1 - 2 Omega x y / RT is
+ * convex in d = y - x, and the bound (Bernstein's convex hull; Farin, Curves and Surfaces for
+ * CAGD, 5th ed., 2002, the convex-hull property) is the larger end value plus its allowance
+ * (2^-36 8^m of the coefficients' size, 8^3 2^-36 (1 + ...) < 1e-6 here).
+ */
+describe('curvatureCeiling bounds curvatureEach from above (seed 4244)', () => {
+  const next = uniform(4244);
+  const pick = (lo: number, hi: number) => lo + (hi - lo) * next();
+  const systems: Array<[string, BinaryModel]> = [];
+  for (let s = 0; s < 40; s++) {
+    const n = 1 + (s % 6);
+    const terms = Array.from({ length: n }, (_, k) => ({ a: pick(-30000, 40000) / (k + 1), b: s % 3 === 0 ? pick(-8, 8) : 0, c: s % 4 === 0 ? pick(-1, 1) : 0 }));
+    systems.push([`Redlich–Kister ${n} terms #${s}`, redlichKister(terms)]);
+  }
+  for (let s = 0; s < 10; s++) systems.push([`Flory–Huggins #${s}`, floryHuggins({ NA: 1 + 500 * next(), NB: 1 + 50 * next(), A: pick(-0.5, 0.5), B: pick(0, 800) })]);
+
+  it('over random stretches of random systems', () => {
+    const xy = new Float64Array(2);
+    const xs = new Float64Array(402), ys = new Float64Array(402), q = new Float64Array(402);
+    let bounded = 0, negative = 0;
+    for (const [name, model] of systems) {
+      for (const T of [300, 700, 1400]) {
+        const iso = model.at(T);
+        for (let trial = 0; trial < 20; trial++) {
+          const ua = trial % 2 ? pick(-8, 8) : pick(-40, 40), ub = ua + pick(0, trial % 2 ? 6 : 40);
+          for (let i = 0; i <= 401; i++) {
+            splitRatio(ua + ((ub - ua) * i) / 401, xy);
+            xs[i] = xy[0]; ys[i] = xy[1];
+          }
+          iso.curvatureEach(xs, ys, 0, 402, q);
+          let top = -Infinity;
+          for (let i = 0; i <= 401; i++) top = Math.max(top, q[i]);
+          const ceiling = iso.curvatureCeiling(xs[0], ys[0], xs[401], ys[401]);
+          if (ceiling === Infinity) continue;
+          expect(ceiling, `${name}, T = ${T}, u from ${ua} to ${ub}`).toBeGreaterThanOrEqual(top);
+          bounded++;
+          if (ceiling < 0) negative++;
+        }
+      }
+    }
+    // every Redlich–Kister stretch is bounded (at most 8 coefficients here), and some are settled
+    expect(bounded).toBeGreaterThanOrEqual(40 * 3 * 20);
+    expect(negative).toBeGreaterThan(50);
+  });
+
+  it('is the larger end value for a regular solution (to within its allowance)', () => {
+    const iso = redlichKister([{ a: 25000, b: 0, c: 0 }]).at(900);
+    const xy = new Float64Array(2), xs = new Float64Array(2), ys = new Float64Array(2), q = new Float64Array(2);
+    for (const [ua, ub] of [[-1.5, 0.2], [-0.3, 1.1], [0.4, 0.9], [-2, 2]]) {
+      splitRatio(ua, xy); xs[0] = xy[0]; ys[0] = xy[1];
+      splitRatio(ub, xy); xs[1] = xy[0]; ys[1] = xy[1];
+      iso.curvatureEach(xs, ys, 0, 2, q);
+      const ceiling = iso.curvatureCeiling(xs[0], ys[0], xs[1], ys[1]);
+      expect(ceiling).toBeGreaterThanOrEqual(Math.max(q[0], q[1]));
+      expect(ceiling - Math.max(q[0], q[1])).toBeLessThan(1e-6);
+    }
+  });
+});

@@ -25,9 +25,10 @@ export function redlichKister(terms: readonly RedlichKisterTerm[]): BinaryModel 
   const key = 'RK:' + frozen.map((t) => `${t.a},${t.b},${t.c}`).join(';');
   // ln T only when a term has a c T ln T part (the same L_k: c T ln T is then zero either way)
   const withLog = frozen.some((t) => t.c !== 0);
+  const ceiling = new StretchCeiling(frozen);
   return {
     key,
-    at: (T) => redlichKisterAt(frozen, T, withLog),
+    at: (T) => redlichKisterAt(frozen, T, withLog, ceiling),
   };
 }
 
@@ -101,7 +102,7 @@ export const redlichKisterFamily: ModelFamily = {
   },
 };
 
-function redlichKisterAt(terms: readonly RedlichKisterTerm[], T: number, withLog: boolean): Isotherm {
+function redlichKisterAt(terms: readonly RedlichKisterTerm[], T: number, withLog: boolean, ceiling: StretchCeiling): Isotherm {
   // A plain array of the exact length, of doubles from the start: one isotherm is made per row of
   // a sweep, and a typed array, or an array grown by push (which reserves 17 slots), costs far more
   // to allocate. An array literal for up to four terms, the usual case.
@@ -112,7 +113,7 @@ function redlichKisterAt(terms: readonly RedlichKisterTerm[], T: number, withLog
       : n === 3 ? [termAt(terms[0], T, lnT), termAt(terms[1], T, lnT), termAt(terms[2], T, lnT)]
         : n === 4 ? [termAt(terms[0], T, lnT), termAt(terms[1], T, lnT), termAt(terms[2], T, lnT), termAt(terms[3], T, lnT)]
           : terms.map((t) => termAt(t, T, lnT));
-  return new RedlichKisterIsotherm(L, T);
+  return new RedlichKisterIsotherm(L, T, lnT, ceiling);
 }
 
 /** L_k(T) = a + b T + c T ln T. */
@@ -135,6 +136,9 @@ class RedlichKisterIsotherm implements Isotherm {
   constructor(
     private readonly L: readonly number[],
     readonly T: number,
+    /** ln T where a term has a c part, else 0 (as L was computed). */
+    private readonly lnT: number,
+    private readonly ceiling: StretchCeiling,
   ) {
     this.RT = R * T;
   }
@@ -223,80 +227,126 @@ class RedlichKisterIsotherm implements Isotherm {
     for (let i = from; i < to; i++) out[i] = (x[i] * y[i] * this.d2g(x[i], y[i])) / RT;
   }
 
-  /**
-   * With x y = (1 - d^2)/4, q = x y g''/RT is a polynomial in d of degree m = n + 1 (n terms):
-   *   q = 1 + (1 - d^2) E(d) / (4 RT),  E(d) = -2P - 4 d P' + (1 - d^2) P'' = sum_j (j+1)(j+2)(L_{j+2} - L_j) d^j.
-   * Over the stretch d = d0 + h t, t in [0, 1], between the two compositions, q is at most its
-   * largest Bernstein coefficient (Farin, Curves and Surfaces for CAGD, 5th ed. 2002, ch. 5: the
-   * convex-hull property); where that does not settle it, the largest of the two halves' (one de
-   * Casteljau split). The allowance for rounding: every number here and in curvatureEach is at most
-   * 8^m s (s = 1 + the sum of |coefficients| of q in d; with |d0| <= 1, |h| <= 2 the shift grows
-   * them by at most 4^m, the change of basis by m + 1 <= 2^m, the split not at all), each operation rounds by at most
-   * 2^-52 of that, and 2^-36 leaves a factor 2^16 for the number of operations (at most a few m^2)
-   * and for x + y differing from 1 by rounding. Infinity beyond CEILING_TERMS terms.
-   */
+  /** The model's StretchCeiling at this temperature. */
   curvatureCeiling(xa: number, ya: number, xb: number, yb: number): number {
-    const L = this.L, n = L.length, m = n + 1;
-    if (m >= CEILING_TERMS) return Infinity;
-    const c = ceilingCoefficients, b = ceilingBernstein;
-    // the coefficients of F = q - 1 in d: (E_j - E_{j-2}) / (4 RT)
-    const scale = 1 / (4 * this.RT);
-    let size = 1;
-    for (let j = 0; j <= m; j++) {
-      const e = j < n ? (j + 1) * (j + 2) * ((j + 2 < n ? L[j + 2] : 0) - L[j]) : 0;
-      const e2 = j >= 2 && j - 2 < n ? (j - 1) * j * ((j < n ? L[j] : 0) - L[j - 2]) : 0;
-      c[j] = (e - e2) * scale;
-      size += Math.abs(c[j]);
-    }
-    // shift to t: F(d0 + h t)
-    const d0 = yb - xb, h = ya - xa - d0;
-    for (let i = 0; i < m; i++) for (let j = m - 1; j >= i; j--) c[j] += d0 * c[j + 1];
-    for (let j = 1, hj = h; j <= m; j++, hj *= h) c[j] *= hj;
-    // Bernstein coefficients: b_i = sum_{j <= i} C(i, j) / C(m, j) c_j
-    const weights = bernsteinWeights(m);
-    let top = -Infinity;
-    for (let i = 0, w = 0; i <= m; i++) {
-      let sum = 0;
-      for (let j = 0; j <= i; j++, w++) sum += weights[w] * c[j];
-      b[i] = sum;
-      if (sum > top) top = sum;
-    }
-    const allowance = weights[weights.length - 1] * size;
-    if (!(1 + top + allowance < 0)) {
-      // de Casteljau at t = 1/2: the left half's coefficients are the first of each level, the right half's the last
-      let left = b[0], right = b[m];
-      for (let level = 1; level <= m; level++) {
-        for (let i = 0; i + level <= m; i++) b[i] = 0.5 * (b[i] + b[i + 1]);
-        if (b[0] > left) left = b[0];
-        if (b[m - level] > right) right = b[m - level];
-      }
-      top = Math.max(left, right);
-    }
-    return 1 + top + allowance;
+    return this.ceiling.at(xa, ya, xb, yb, this.T, this.lnT);
   }
 }
 
-/** Beyond this many polynomial coefficients curvatureCeiling gives no bound (its allowance would be too wide to settle anything). */
-const CEILING_TERMS = 16;
-/** curvatureCeiling's scratch: the coefficients of q - 1, then its Bernstein coefficients. */
-const ceilingCoefficients = new Float64Array(CEILING_TERMS + 1), ceilingBernstein = new Float64Array(CEILING_TERMS + 1);
-/** bernsteinWeights of each degree, made when first asked for. */
-const weightsOfDegree: Array<Float64Array | undefined> = [];
-
 /**
- * The weights C(i, j) / C(m, j) of the change from the power basis to the Bernstein basis of degree
- * m, for i = 0..m and j = 0..i in that order, and last curvatureCeiling's allowance factor 2^-36 8^m.
+ * curvatureCeiling of a Redlich–Kister model. With x y = (1 - d^2)/4, q = x y g''/RT is a
+ * polynomial in d of degree m = n + 1 (n terms):
+ *   q = 1 + (1 - d^2) E(d) / (4 RT),  E(d) = -2P - 4 d P' + (1 - d^2) P'' = sum_j (j+1)(j+2)(L_{j+2} - L_j) d^j,
+ * and E is linear in the L_k = a_k + b_k T + c_k T ln T, so
+ *   q - 1 = F_a(d) / T + F_b(d) + F_c(d) ln T,  F_p(d) = (1 - d^2) E(d; p) / (4 R)
+ * with E(d; p) the E of the a (b, c) parts alone. Over the stretch d = d0 + h t, t in [0, 1],
+ * between two compositions, q is at most its largest Bernstein coefficient (Farin, Curves and
+ * Surfaces for CAGD, 5th ed., 2002, the convex-hull property); where that does not settle it, the
+ * largest of the two halves' (one de Casteljau split). The Bernstein coefficients of F_a, F_b and
+ * F_c on a stretch do not depend on T: they are kept for the last stretch asked for, and a row of a
+ * sweep, whose stretch (between two grid nodes) changes only every hundred rows or so, combines them.
+ * The allowance for rounding: every number here and in curvatureEach is at most 8^m s (s = 1 + the
+ * sum of |coefficients| of q in d; with |d0| <= 1, |h| <= 2 the shift grows them by at most 4^m,
+ * the change of basis by m + 1 <= 2^m, the split not at all), each operation rounds by at most
+ * 2^-52 of that, and 2^-36 leaves a factor 2^16 for the number of operations (at most a few m^2)
+ * and for x + y differing from 1 by rounding. Infinity beyond CEILING_TERMS coefficients.
  */
-function bernsteinWeights(m: number): Float64Array {
-  let w = weightsOfDegree[m];
-  if (w) return w;
-  const binomial = (a: number, k: number) => { let v = 1; for (let t = 0; t < k; t++) v = (v * (a - t)) / (t + 1); return v; };
-  w = new Float64Array(((m + 1) * (m + 2)) / 2 + 1);
-  let k = 0;
-  for (let i = 0; i <= m; i++) for (let j = 0; j <= i; j++) w[k++] = binomial(i, j) / binomial(m, j);
-  w[k] = 2 ** -36 * 8 ** m;
-  weightsOfDegree[m] = w;
-  return w;
+class StretchCeiling {
+  private readonly m: number;
+  /** ALLOWANCE 8^m. */
+  private readonly allowance: number;
+  /** The coefficients of F_a, F_b, F_c in d, and the sums of their sizes. */
+  private readonly power: Float64Array[];
+  private readonly sizes: number[];
+  /** The Bernstein coefficients of F_a, F_b, F_c on the stretch last asked for (xa, ya to xb, yb). */
+  private readonly bernstein: Float64Array[];
+  private xa = NaN;
+  private ya = NaN;
+  private xb = NaN;
+  private yb = NaN;
+
+  constructor(terms: readonly RedlichKisterTerm[]) {
+    const n = terms.length, m = n + 1;
+    this.m = m;
+    this.allowance = ALLOWANCE * 8 ** m;
+    this.power = [];
+    this.sizes = [];
+    this.bernstein = [];
+    if (m > CEILING_TERMS) return;
+    for (const part of ['a', 'b', 'c'] as const) {
+      const L = (k: number) => (k < n ? terms[k][part] : 0);
+      const E = (j: number) => (j >= 0 && j < n ? (j + 1) * (j + 2) * (L(j + 2) - L(j)) : 0);
+      const F = new Float64Array(m + 1);
+      let size = 0;
+      for (let j = 0; j <= m; j++) {
+        F[j] = (E(j) - E(j - 2)) / (4 * R);
+        size += Math.abs(F[j]);
+      }
+      this.power.push(F);
+      this.sizes.push(size);
+      this.bernstein.push(new Float64Array(m + 1));
+    }
+  }
+
+  /** The bound at temperature T (lnT: ln T where the model has c parts, else 0). */
+  at(xa: number, ya: number, xb: number, yb: number, T: number, lnT: number): number {
+    const m = this.m;
+    if (m > CEILING_TERMS) return Infinity;
+    if (!(xa === this.xa && ya === this.ya && xb === this.xb && yb === this.yb)) this.stretch(xa, ya, xb, yb);
+    const ba = this.bernstein[0], bb = this.bernstein[1], bc = this.bernstein[2];
+    const w = 1 / T;
+    let top = -Infinity;
+    for (let i = 0; i <= m; i++) {
+      const v = ba[i] * w + bb[i] + bc[i] * lnT;
+      if (v > top) top = v;
+    }
+    const allowance = this.allowance * (1 + this.sizes[0] * w + this.sizes[1] + this.sizes[2] * Math.abs(lnT));
+    if (1 + top + allowance < 0 || !(top === top)) return 1 + top + allowance;
+    // de Casteljau at t = 1/2: the left half's coefficients are the first of each level, the right half's the last
+    const b = splitScratch;
+    for (let i = 0; i <= m; i++) b[i] = ba[i] * w + bb[i] + bc[i] * lnT;
+    let left = b[0], right = b[m];
+    for (let level = 1; level <= m; level++) {
+      for (let i = 0; i + level <= m; i++) b[i] = 0.5 * (b[i] + b[i + 1]);
+      if (b[0] > left) left = b[0];
+      if (b[m - level] > right) right = b[m - level];
+    }
+    return 1 + Math.max(left, right) + allowance;
+  }
+
+  /** The Bernstein coefficients of F_a, F_b, F_c on the stretch d = d0 + h t (d0 = yb - xb, d0 + h = ya - xa). */
+  private stretch(xa: number, ya: number, xb: number, yb: number): void {
+    const m = this.m, c = splitScratch;
+    const d0 = yb - xb, h = ya - xa - d0;
+    for (let p = 0; p < 3; p++) {
+      c.set(this.power[p]);
+      // shift to t: F(d0 + h t)
+      for (let i = 0; i < m; i++) for (let j = m - 1; j >= i; j--) c[j] += d0 * c[j + 1];
+      for (let j = 1, hj = h; j <= m; j++, hj *= h) c[j] *= hj;
+      // b_i = sum_{j <= i} C(i, j) / C(m, j) c_j
+      const out = this.bernstein[p];
+      for (let i = 0; i <= m; i++) {
+        let sum = 0;
+        for (let j = 0; j <= i; j++) sum += (binomial(i, j) / binomial(m, j)) * c[j];
+        out[i] = sum;
+      }
+    }
+    this.xa = xa; this.ya = ya; this.xb = xb; this.yb = yb;
+  }
+}
+
+/** Beyond this many polynomial coefficients less one (degree m) curvatureCeiling gives no bound (its allowance would be too wide to settle anything). */
+const CEILING_TERMS = 16;
+/** The allowance for rounding, per 8^m of the coefficients' size (see StretchCeiling). */
+const ALLOWANCE = 2 ** -36;
+/** StretchCeiling's scratch (a shift, a split). */
+const splitScratch = new Float64Array(CEILING_TERMS + 1);
+
+/** The binomial coefficient C(a, k). */
+function binomial(a: number, k: number): number {
+  let v = 1;
+  for (let t = 0; t < k; t++) v = (v * (a - t)) / (t + 1);
+  return v;
 }
 
 /** x ln x, with the limit 0 at x = 0. */

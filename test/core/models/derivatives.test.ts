@@ -144,6 +144,29 @@ describe('curvatureCeiling bounds curvatureEach from above (seed 4244)', () => {
     expect(negative).toBeGreaterThan(50);
   });
 
+  it('on one stretch at many temperatures in a row (as a sweep asks: the stretch\'s coefficients are kept)', () => {
+    const xy = new Float64Array(2);
+    const xs = new Float64Array(202), ys = new Float64Array(202), q = new Float64Array(202);
+    let negative = 0;
+    for (const [name, model] of systems) {
+      for (let trial = 0; trial < 5; trial++) {
+        const ua = pick(-6, 6), ub = ua + pick(0, 5);
+        for (let i = 0; i <= 201; i++) {
+          splitRatio(ua + ((ub - ua) * i) / 201, xy);
+          xs[i] = xy[0]; ys[i] = xy[1];
+        }
+        for (let T = 200; T <= 2000; T += 150) {
+          const iso = model.at(T);
+          iso.curvatureEach(xs, ys, 0, 202, q);
+          const ceiling = iso.curvatureCeiling(xs[0], ys[0], xs[201], ys[201]);
+          for (let i = 0; i <= 201; i++) expect(ceiling, `${name}, T = ${T}, u from ${ua} to ${ub}, point ${i}`).toBeGreaterThanOrEqual(q[i]);
+          if (ceiling < 0) negative++;
+        }
+      }
+    }
+    expect(negative).toBeGreaterThan(50);
+  });
+
   it('is the larger end value for a regular solution (to within its allowance)', () => {
     const iso = redlichKister([{ a: 25000, b: 0, c: 0 }]).at(900);
     const xy = new Float64Array(2), xs = new Float64Array(2), ys = new Float64Array(2), q = new Float64Array(2);

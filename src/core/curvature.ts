@@ -319,6 +319,9 @@ const innerQ = new Float64Array(256);
  * above zero. (Nodes outside [s1, s2] are not sampled: an unstable interval appears there only
  * where a minimum of q crosses zero, at the temperatures criticalSearch lists as crossings, which
  * a table does not follow across.) True when the grid is not the one curvatureMap would choose.
+ * Where the model's curvatureCeiling over the first to the last of those nodes is negative, every
+ * q analyse could compute there (at a node or a refined maximum, all within that stretch) is
+ * negative: false without sampling (a sweep's usual row).
  */
 export function stableIslandBetween(iso: Isotherm, s1: number, s2: number): boolean {
   const grid = samplingGrid(iso);

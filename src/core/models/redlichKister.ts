@@ -249,7 +249,7 @@ class RedlichKisterIsotherm implements Isotherm {
  * sum of |coefficients| of q in d; with |d0| <= 1, |h| <= 2 the shift grows them by at most 4^m,
  * the change of basis by m + 1 <= 2^m, the split not at all), each operation rounds by at most
  * 2^-52 of that, and 2^-36 leaves a factor 2^16 for the number of operations (at most a few m^2)
- * and for x + y differing from 1 by rounding. Infinity beyond CEILING_TERMS coefficients.
+ * and for x + y differing from 1 by rounding. Infinity beyond degree CEILING_DEGREE.
  */
 class StretchCeiling {
   private readonly m: number;
@@ -272,7 +272,7 @@ class StretchCeiling {
     this.power = [];
     this.sizes = [];
     this.bernstein = [];
-    if (m > CEILING_TERMS) return;
+    if (m > CEILING_DEGREE) return;
     for (const part of ['a', 'b', 'c'] as const) {
       const L = (k: number) => (k < n ? terms[k][part] : 0);
       const E = (j: number) => (j >= 0 && j < n ? (j + 1) * (j + 2) * (L(j + 2) - L(j)) : 0);
@@ -291,7 +291,7 @@ class StretchCeiling {
   /** The bound at temperature T (lnT: ln T where the model has c parts, else 0). */
   at(xa: number, ya: number, xb: number, yb: number, T: number, lnT: number): number {
     const m = this.m;
-    if (m > CEILING_TERMS) return Infinity;
+    if (m > CEILING_DEGREE) return Infinity;
     if (!(xa === this.xa && ya === this.ya && xb === this.xb && yb === this.yb)) this.stretch(xa, ya, xb, yb);
     const ba = this.bernstein[0], bb = this.bernstein[1], bc = this.bernstein[2];
     const w = 1 / T;
@@ -335,12 +335,12 @@ class StretchCeiling {
   }
 }
 
-/** Beyond this many polynomial coefficients less one (degree m) curvatureCeiling gives no bound (its allowance would be too wide to settle anything). */
-const CEILING_TERMS = 16;
+/** The highest degree m (10 terms) given a bound: beyond it the allowance, 2^-36 8^m of the coefficients' size, is half of that or more, too wide to settle anything. */
+const CEILING_DEGREE = 11;
 /** The allowance for rounding, per 8^m of the coefficients' size (see StretchCeiling). */
 const ALLOWANCE = 2 ** -36;
 /** StretchCeiling's scratch (a shift, a split). */
-const splitScratch = new Float64Array(CEILING_TERMS + 1);
+const splitScratch = new Float64Array(CEILING_DEGREE + 1);
 
 /** The binomial coefficient C(a, k). */
 function binomial(a: number, k: number): number {

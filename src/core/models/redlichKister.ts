@@ -293,18 +293,17 @@ class StretchCeiling {
     const m = this.m;
     if (m > CEILING_DEGREE) return Infinity;
     if (!(xa === this.xa && ya === this.ya && xb === this.xb && yb === this.yb)) this.stretch(xa, ya, xb, yb);
-    const ba = this.bernstein[0], bb = this.bernstein[1], bc = this.bernstein[2];
+    // the Bernstein coefficients of q - 1 at T
+    const ba = this.bernstein[0], bb = this.bernstein[1], bc = this.bernstein[2], b = splitScratch;
     const w = 1 / T;
     let top = -Infinity;
     for (let i = 0; i <= m; i++) {
-      const v = ba[i] * w + bb[i] + bc[i] * lnT;
-      if (v > top) top = v;
+      b[i] = ba[i] * w + bb[i] + bc[i] * lnT;
+      if (b[i] > top) top = b[i];
     }
     const allowance = this.allowance * (1 + this.sizes[0] * w + this.sizes[1] + this.sizes[2] * Math.abs(lnT));
     if (1 + top + allowance < 0 || !(top === top)) return 1 + top + allowance;
     // de Casteljau at t = 1/2: the left half's coefficients are the first of each level, the right half's the last
-    const b = splitScratch;
-    for (let i = 0; i <= m; i++) b[i] = ba[i] * w + bb[i] + bc[i] * lnT;
     let left = b[0], right = b[m];
     for (let level = 1; level <= m; level++) {
       for (let i = 0; i + level <= m; i++) b[i] = 0.5 * (b[i] + b[i + 1]);

@@ -3,7 +3,7 @@ import { fail, kelvin, MixgapError, msg } from './errors';
 import type { Isotherm, Point } from './model';
 import { logRatio, muA, pointAt, splitRatio } from './model';
 import { BRACKET_WIDTH, CELL, DILUTE_LIMIT, ENERGY_UNIT_HINT, ESTIMATE, SETTLED, NEAR_CRITICAL_DROP, NEWTON_STEP, ROOT_NOISE, ROUNDING, SLOPE_STEP, U_LIMIT } from './limits';
-import { clearCell } from './roots';
+import { cellBeside, clearCell } from './roots';
 
 /** One miscibility gap at a temperature: the two coexisting compositions and their common tangent. */
 export interface Gap {
@@ -186,8 +186,7 @@ function canonicalSlopePoint(iso: Isotherm, br: Branch, m: number, estimate: num
     if (k !== k) {
       const ib = Math.round(r / CELL);
       splitRatio(ib * CELL, xyCell);
-      const f = iso.dg(xyCell[0], xyCell[1]) - m;
-      k = f < 0 ? ib : f >= 0 ? ib - 1 : NaN;
+      k = cellBeside(ib, iso.dg(xyCell[0], xyCell[1]) - m);
     }
     if (k === i) return slopeOut[1] <= ROOT_NOISE && i * CELL > br.a && (i + 1) * CELL < br.b ? r : undefined;
     i = k;
@@ -280,7 +279,7 @@ function tangentCell(iso: Isotherm, j: Branch, k: Branch, r1: number, r2: number
   iso.derivatives(xo, xyCell[1], derSide);
   const muOther = derSide[0] - xo * m;
   const F = low ? muB - muOther : muOther - muB;
-  return F < 0 ? ib : F >= 0 ? ib - 1 : NaN;
+  return cellBeside(ib, F);
 }
 
 /**

@@ -137,3 +137,11 @@ export function clearCell(r: number): number {
   const ib = Math.round(r / CELL);
   return Math.abs(r - ib * CELL) < CELL_GUARD ? NaN : Math.floor(r / CELL);
 }
+
+/**
+ * The root's cell next to the boundary ib CELL from the sign of F there (rule 2 above): F(b) < 0
+ * puts the root above b (cell ib), F(b) >= 0 below it (cell ib - 1); NaN when F(b) is not a number.
+ */
+export function cellBeside(ib: number, fb: number): number {
+  return fb < 0 ? ib : fb >= 0 ? ib - 1 : NaN;
+}

@@ -11,8 +11,6 @@
  * engine tests and the workbook tests run with it); only the time changes. If the graph class is not
  * what this was written for (another HyperFormula version), nothing is patched.
  */
-import { HyperFormula } from 'hyperformula';
-
 /** Lists shorter than this are searched as they are (a Set costs more than it saves there). */
 const INDEX_FROM = 32;
 
@@ -37,20 +35,6 @@ function indexOf(graph: GraphLike, fromId: number): Set<number> | undefined {
   for (const id of list) if (id !== undefined) set.add(id);
   byNode.set(fromId, set);
   return set;
-}
-
-/**
- * Patches HyperFormula's graph class once per process, finding it in an empty engine built for the
- * purpose (which costs as much as setting up the engine's formula parser, a tenth of a second);
- * true when it is (or already was) patched. The engine of ./engine does not need this: its
- * function plugin calls `indexGraphOf` with the graph of the engine being built.
- */
-export function indexDependencyGraph(): boolean {
-  if (patched) return true;
-  const probe = HyperFormula.buildEmpty({ licenseKey: 'gpl-v3' });
-  const graph = (probe as unknown as { dependencyGraph?: { graph?: GraphLike } }).dependencyGraph?.graph;
-  probe.destroy();
-  return patchGraphClass(graph);
 }
 
 /** Patches the class of `graph` (a graph of an engine being built) once per process; true when it is patched. */

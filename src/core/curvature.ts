@@ -32,6 +32,12 @@ const curv = new Float64Array(2);
 /** A batch of two points for Isotherm.curvatureEach (the ends of a grid or of a cell) and q there (scaledCurvature's bits). */
 const pairX = new Float64Array(2), pairY = new Float64Array(2), pairQ = new Float64Array(2);
 
+/** q at (xa, ya) and (xb, yb) into pairQ, in one model call. */
+function curvaturePair(iso: Isotherm, xa: number, ya: number, xb: number, yb: number): void {
+  pairX[0] = xa; pairY[0] = ya; pairX[1] = xb; pairY[1] = yb;
+  iso.curvatureEach(pairX, pairY, 0, 2, pairQ);
+}
+
 /** A local minimum of q, refined. */
 export interface CurvatureMinimum {
   point: Point;
@@ -188,10 +194,9 @@ function signedQNewton(t: number, out: Float64Array): number {
 /** signedQ at both ends of cell i, into pairQ (one model call). */
 function signedQEnds(i: number): void {
   splitRatio(i * CELL, xyRoot);
-  pairX[0] = xyRoot[0]; pairY[0] = xyRoot[1];
+  const xa = xyRoot[0], ya = xyRoot[1];
   splitRatio((i + 1) * CELL, xyRoot);
-  pairX[1] = xyRoot[0]; pairY[1] = xyRoot[1];
-  rootIso.curvatureEach(pairX, pairY, 0, 2, pairQ);
+  curvaturePair(rootIso, xa, ya, xyRoot[0], xyRoot[1]);
   pairQ[0] *= rootSign;
   pairQ[1] *= rootSign;
 }
@@ -249,8 +254,7 @@ function samplingGrid(iso: Isotherm): Grid | undefined {
   gridChosen = undefined;
   for (let r = 0; r < RANGES.length; r++) {
     const grid = gridAt(r), { x, y } = grid, n = x.length;
-    pairX[0] = x[0]; pairY[0] = y[0]; pairX[1] = x[n - 1]; pairY[1] = y[n - 1];
-    iso.curvatureEach(pairX, pairY, 0, 2, pairQ);
+    curvaturePair(iso, x[0], y[0], x[n - 1], y[n - 1]);
     const q0 = pairQ[0], qn = pairQ[1];
     if (q0 > 0 && qn > 0) return (gridChosen = grid);
     if (Number.isNaN(q0) || Number.isNaN(qn)) break;
@@ -290,8 +294,7 @@ export function spinodalRootNear(iso: Isotherm, estimate: number): number | unde
   }
   lastCells[1] = lastCells[0];
   lastCells[0] = lo;
-  pairX[0] = x[lo]; pairY[0] = y[lo]; pairX[1] = x[hi]; pairY[1] = y[hi];
-  iso.curvatureEach(pairX, pairY, 0, 2, pairQ);
+  curvaturePair(iso, x[lo], y[lo], x[hi], y[hi]);
   const qa = pairQ[0], qb = pairQ[1];
   if (qa > 0 === qb > 0) return undefined;
   return canonicalRoot(iso, estimate, qa > 0 ? -1 : 1) ?? spinodalRoot(iso, u[lo], u[hi], qa, qb);

@@ -18,24 +18,13 @@ export interface Tag {
   attrText: string;
 }
 
-const TAG = /<!--[\s\S]*?-->|<!\[CDATA\[[\s\S]*?\]\]>|<[?!][^>]*>|<(\/?)([A-Za-z_][\w.:-]*)((?:[^>"'/]|"[^"]*"|'[^']*'|\/(?!>))*)(\/?)>/g;
-
-/** Every element tag of `xml` from offset `from` on, in order (comments, CDATA and declarations skipped). */
+/** Every element tag of `xml` from offset `from` on, in order (comments, CDATA and declarations skipped): TagCursor's tags as objects. */
 export function* tags(xml: string, from = 0): Generator<Tag> {
-  const re = new RegExp(TAG.source, 'g');
-  re.lastIndex = from;
-  for (let m = re.exec(xml); m; m = re.exec(xml)) {
-    if (m[2] === undefined) continue;
-    const name = m[2];
-    yield {
-      name,
-      local: name.slice(name.indexOf(':') + 1),
-      start: m.index,
-      end: m.index + m[0].length,
-      closing: m[1] === '/',
-      selfClosing: m[4] === '/',
-      attrText: m[3],
-    };
+  const t = new TagCursor(xml, from);
+  while (t.next()) {
+    const name = t.name;
+    // (local from the first colon, as this has always read a name with two, which XML does not allow)
+    yield { name, local: name.slice(name.indexOf(':') + 1), start: t.start, end: t.end, closing: t.closing, selfClosing: t.selfClosing, attrText: t.attrText };
   }
 }
 
@@ -113,10 +102,11 @@ export function runText(xml: string): string {
 }
 
 /**
- * The element tags of a text one at a time, as `tags` finds them (comments, CDATA and declarations
- * skipped), without an object or a string per tag: `next()` moves to the next tag and the fields
- * describe it by offsets. For the big parts (a worksheet of a hundred thousand cells), where
- * `tags` spends more time making objects than reading.
+ * The element tags of a text one at a time (comments, CDATA sections, declarations and processing
+ * instructions skipped; a `<` that starts no well-formed tag, such as one with an unclosed quote, is
+ * passed over), without an object or a string per tag: `next()` moves to the next tag and the
+ * fields describe it by offsets. The big parts (a worksheet of a hundred thousand cells) are read
+ * with it directly; `tags` makes objects of its tags for the small ones.
  */
 export class TagCursor {
   /** Offsets of the whole tag, `<` to `>` inclusive / exclusive. */
@@ -161,7 +151,7 @@ export class TagCursor {
         continue;
       }
       if (this.element(lt)) return true;
-      i = lt + 1; // not a tag (a stray `<`, an unclosed quote): look further, as `tags` does
+      i = lt + 1; // not a tag (a stray `<`, an unclosed quote): look further
     }
   }
 
